@@ -1,0 +1,5 @@
+//go:build race
+
+package stamp
+
+const raceEnabled = true
