@@ -230,7 +230,7 @@ func parseEpoch(in string, perSec int64, unit string) (Stamp, error) {
 	overflow := false
 	for ; i < len(s) && s[i]-'0' <= 9; i++ {
 		d := uint64(s[i] - '0')
-		if overflow || ip > (1<<63-1-d)/10 {
+		if i-start >= 18 && (overflow || ip > (1<<63-1-d)/10) { // 18 digits cannot overflow
 			overflow = true
 			continue
 		}
@@ -251,9 +251,17 @@ func parseEpoch(in string, perSec int64, unit string) (Stamp, error) {
 		return Stamp{}, epochRange(in, unit, perSec)
 	}
 	// ip units + frac·1e-9 units → sec, nsec.
-	nsPerUnit := 1e9 / perSec
-	sec := int64(ip) / perSec
-	nsec := int64(ip)%perSec*nsPerUnit + int64(frac)*nsPerUnit/1e9
+	var sec, nsec int64
+	switch v := int64(ip); perSec { // constant divisors: no hardware division
+	case 1:
+		sec, nsec = v, int64(frac)
+	case 1e3:
+		sec, nsec = v/1e3, v%1e3*1e6+int64(frac)/1e3
+	case 1e6:
+		sec, nsec = v/1e6, v%1e6*1e3+int64(frac)/1e6
+	default:
+		sec, nsec = v/1e9, v%1e9
+	}
 	if neg {
 		sec, nsec = -sec, -nsec
 		if nsec < 0 {
