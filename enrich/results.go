@@ -1,0 +1,94 @@
+package enrich
+
+import (
+	"math"
+	"time"
+
+	"github.com/heliotag/heliotag/solar"
+)
+
+// Results are the computed values of one chunk, indexed like its rows.
+// Formats read them through Float, Word, Text and Instant, column by column.
+type Results struct {
+	Plan   *Plan
+	Status []Status
+	Err    []error // the row's problem when Status is not RowOK
+
+	Altitude, Azimuth []float64
+	Phase             []solar.Phase
+
+	// Zone is the row's date zone (from Inputs) for writing instants.
+	Zone []*time.Location
+	Note []string
+}
+
+func (r *Results) reset(n int) {
+	r.Status = resize(r.Status, n)
+	r.Err = resize(r.Err, n)
+	r.Altitude = resize(r.Altitude, n)
+	r.Azimuth = resize(r.Azimuth, n)
+	r.Phase = resize(r.Phase, n)
+	r.Zone = resize(r.Zone, n)
+	r.Note = resize(r.Note, n)
+}
+
+// Len is the number of rows.
+func (r *Results) Len() int { return len(r.Status) }
+
+// Float returns a KindFloat value of row i; ok is false when the cell is empty
+// (the row was not computed, or the value does not exist for it).
+func (r *Results) Float(f Field, i int) (v float64, ok bool) {
+	if r.Status[i] != RowOK {
+		return 0, false
+	}
+	switch f {
+	case FieldAltitude:
+		v = r.Altitude[i]
+	case FieldAzimuth:
+		v = r.Azimuth[i]
+	default:
+		return 0, false
+	}
+	if math.IsNaN(v) {
+		return 0, false
+	}
+	return v, true
+}
+
+// Word returns a KindCategory value of row i, "" when empty.
+func (r *Results) Word(f Field, i int) string {
+	if r.Status[i] != RowOK {
+		return ""
+	}
+	switch f {
+	case FieldPhase:
+		return r.Phase[i].String()
+	case FieldCondition:
+		return r.Phase[i].Condition().String()
+	}
+	return ""
+}
+
+// Text returns a KindText value of row i, "" when empty.
+func (r *Results) Text(f Field, i int) string {
+	switch f {
+	case FieldTimeNote:
+		return r.Note[i]
+	case FieldError:
+		if r.Err[i] == nil {
+			return ""
+		}
+		var re *RowError
+		if asRowError(r.Err[i], &re) {
+			return re.Reason()
+		}
+		return r.Err[i].Error()
+	}
+	return ""
+}
+
+// Instant returns a KindInstant value of row i in the row's date zone (UTC
+// when the row has none); ok is false when empty.
+func (r *Results) Instant(f Field, i int) (t time.Time, ok bool) {
+	return time.Time{}, false
+}
