@@ -133,3 +133,135 @@ func nearPhaseEdge(p Pos) bool {
 	h := math.Abs(p.HourAngle)
 	return h < eps || h > 180-eps
 }
+
+// TestKernelWholeRange compares the batch path with the reference over the whole valid range, years -2000 to
+// 6000, with 20,000 seeded random rows in batches that span it all.
+func TestKernelWholeRange(t *testing.T) {
+	rng := rand.New(rand.NewPCG(6000, 2000))
+	k := NewKernel(Options{})
+	var out Positions
+	var worstAlt, worstAz float64
+	for b := 0; b < 20; b++ {
+		n := 1000
+		unix, lat, lon := make([]float64, n), make([]float64, n), make([]float64, n)
+		for i := range unix {
+			unix[i] = MinUnix + rng.Float64()*(MaxUnix-MinUnix)
+			lat[i], lon[i] = rng.Float64()*180-90, rng.Float64()*360-180
+		}
+		k.Positions(unix, lat, lon, &out)
+		for i := range unix {
+			ref, err := Position(unix[i], lat[i], lon[i], Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if math.Abs(ref.GeometricAltitude-RefractionCutoff) < 1e-6 {
+				continue
+			}
+			worstAlt = max(worstAlt, math.Abs(out.Altitude[i]-ref.Altitude))
+			if ref.GeometricAltitude < 89.5 {
+				worstAz = max(worstAz, math.Abs(wrap180(out.Azimuth[i]-ref.Azimuth)))
+			}
+		}
+	}
+	if worstAlt > 0.0005 || worstAz > 0.0005 {
+		t.Errorf("largest differences from the reference: altitude %.3g°, azimuth %.3g°", worstAlt, worstAz)
+	}
+	t.Logf("largest differences from the reference: altitude %.3g°, azimuth %.3g°", worstAlt, worstAz)
+}
+
+func TestKernelInvalidRows(t *testing.T) {
+	// 600 rows: three chunks, the last one partial; every 37th row is invalid in some way.
+	n := 600
+	unix, lat, lon := benchRows(n)
+	bad := []struct {
+		unix, lat, lon float64
+	}{
+		{math.NaN(), 0, 0},
+		{MaxUnix, 0, 0},
+		{MinUnix - 1, 0, 0},
+		{0, 91, 0},
+		{0, math.NaN(), 0},
+		{0, 0, 180.5},
+		{0, 0, math.Inf(-1)},
+	}
+	invalid := map[int]bool{}
+	for j, i := 0, 0; i < n; i, j = i+37, j+1 {
+		b := bad[j%len(bad)]
+		unix[i], lat[i], lon[i] = b.unix, b.lat, b.lon
+		invalid[i] = true
+	}
+	unix[n-1], lat[n-1] = math.Inf(1), 0 // the very last row too
+	invalid[n-1] = true
+	var out Positions
+	NewKernel(Options{}).Positions(unix, lat, lon, &out)
+	for i := range unix {
+		if invalid[i] {
+			if Check(unix[i], lat[i], lon[i]) == nil {
+				t.Fatalf("row %d meant to be invalid passes Check", i)
+			}
+			if !math.IsNaN(out.Altitude[i]) || !math.IsNaN(out.Azimuth[i]) || out.Phase[i] != PhaseUnknown {
+				t.Errorf("invalid row %d: %v %v %v, want NaN NaN unknown", i, out.Altitude[i], out.Azimuth[i], out.Phase[i])
+			}
+			continue
+		}
+		ref, err := Position(unix[i], lat[i], lon[i], Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !within(out.Altitude[i], ref.Altitude, 0.0005) || out.Phase[i] == PhaseUnknown {
+			t.Errorf("row %d: altitude %v phase %v, reference %v", i, out.Altitude[i], out.Phase[i], ref.Altitude)
+		}
+	}
+}
+
+func TestKernelOutputSizing(t *testing.T) {
+	k := NewKernel(Options{})
+	unix, lat, lon := benchRows(300)
+	var out Positions
+	k.Positions(unix, lat, lon, &out)
+	if len(out.Altitude) != 300 || len(out.Azimuth) != 300 || len(out.Phase) != 300 {
+		t.Fatalf("lengths %d %d %d, want 300", len(out.Altitude), len(out.Azimuth), len(out.Phase))
+	}
+	first := &out.Altitude[0]
+	k.Positions(unix[:100], lat, lon, &out) // lat and lon may be longer than unix
+	if len(out.Altitude) != 100 || len(out.Azimuth) != 100 || len(out.Phase) != 100 {
+		t.Fatalf("lengths %d %d %d, want 100", len(out.Altitude), len(out.Azimuth), len(out.Phase))
+	}
+	if &out.Altitude[0] != first {
+		t.Error("a large enough Altitude array was not reused")
+	}
+	allocs := testing.AllocsPerRun(10, func() { k.Positions(unix, lat, lon, &out) })
+	if allocs != 0 {
+		t.Errorf("Positions allocates %v times per call with a reused output", allocs)
+	}
+	k.Positions(nil, nil, nil, &out)
+	if len(out.Altitude) != 0 || len(out.Phase) != 0 {
+		t.Errorf("empty batch left lengths %d, %d", len(out.Altitude), len(out.Phase))
+	}
+}
+
+func TestKernelPanicsOnShortInputs(t *testing.T) {
+	defer func() {
+		if recover() == nil {
+			t.Error("no panic with lat shorter than unix")
+		}
+	}()
+	var out Positions
+	NewKernel(Options{}).Positions([]float64{0, 1}, []float64{0}, []float64{0, 0}, &out)
+}
+
+func TestKernelKeepsItsOptions(t *testing.T) {
+	dt, temp := 60.0, 30.0
+	o := Options{DeltaT: &dt, Temperature: &temp}
+	k := NewKernel(o)
+	dt, temp = 1e6, -100 // changing the caller's values afterwards must not affect the kernel
+	unix, lat, lon := benchRows(50)
+	var out Positions
+	k.Positions(unix, lat, lon, &out)
+	for i := range unix {
+		ref, _ := Position(unix[i], lat[i], lon[i], Options{DeltaT: ptr(60), Temperature: ptr(30)})
+		if !within(out.Altitude[i], ref.Altitude, 0.0005) {
+			t.Fatalf("row %d: altitude %v, reference with the original options %v", i, out.Altitude[i], ref.Altitude)
+		}
+	}
+}
