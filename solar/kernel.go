@@ -4,21 +4,21 @@ import (
 	"math"
 )
 
-// The batch path evaluates the reference's geocentric quantities at grid instants ("nodes", every
-// gridStep seconds of Unix time, aligned to the Unix epoch) and, for the cell between two nodes, fits cubic
-// polynomials through the four surrounding nodes (Lagrange interpolation at u = −1, 0, 1, 2 in units of the
-// step). Per row it only evaluates the cubics and does the topocentric part. Nodes and cells are kept in
+// The batch path evaluates the reference's geocentric quantities at grid instants ("nodes", every gridStep
+// seconds of Unix time, aligned to the Unix epoch) and, for the cell between two nodes, fits quintic
+// polynomials through the six surrounding nodes (Lagrange interpolation at u = −2…3 in units of the step).
+// Per row it only evaluates the polynomials and does the topocentric part. Nodes and cells are kept in
 // direct-mapped caches indexed by their number, so they are computed once per kernel however the rows are
 // ordered, and are reused by later batches.
 //
-// Interpolation error for a 2-day step: the largest fast terms of the sun's apparent place are the Moon's
-// pull on the Earth (period 29.5 d, 0.0018°) and nutation (period 13.7 d, 0.00006°); a cubic on the middle
-// of four nodes errs by at most (3/128)(ωh)⁴·amplitude, about 1e-6° each. TestKernelAccuracy measures the
-// total against the reference path.
+// Interpolation error for a 2-day step h: the fastest terms of the sun's apparent place that matter are
+// nutation (period 13.7 d, amplitude 0.00006°) and the Moon's pull on the Earth (period 29.5 d, 0.0018°). On
+// the middle interval of six nodes a quintic errs by at most 0.0049·(ωh)⁶ times a term's amplitude: about
+// 2e-7° and 5e-8°. TestKernelAccuracy measures the total against the reference path (under 1e-6°).
 const (
-	gridStep  = secondsPerDay // seconds between nodes
-	cellBits  = 13            // 8192 cells: 22 years of 1-day cells without collisions
-	nodeBits  = 14            // 16384 nodes: 44 years
+	gridStep  = 2 * secondsPerDay // seconds between nodes
+	cellBits  = 13                // 8192 cells: 44 years of 2-day cells without collisions
+	nodeBits  = 14                // 16384 nodes: 89 years
 	cellMask  = 1<<cellBits - 1
 	nodeMask  = 1<<nodeBits - 1
 	emptySlot = math.MinInt64 // tag of a slot never filled
@@ -33,13 +33,13 @@ type node struct {
 	sinXi          float64 // sine of the equatorial horizontal parallax
 }
 
-// cell holds, for the instants t = (k + u)·gridStep, u in [0, 1), cubic coefficients in u of the Greenwich
+// cell holds, for the instants t = (k + u)·gridStep, u in [0, 1), quintic coefficients in u of the Greenwich
 // hour angle of the sun (ν − α, degrees, not reduced), of sin δ and of cos δ, and the parallax.
 type cell struct {
 	tag    int64
-	gha    [4]float64
-	sinDec [4]float64
-	cosDec [4]float64
+	gha    [6]float64
+	sinDec [6]float64
+	cosDec [6]float64
 	sinXi  float64
 }
 
@@ -168,9 +168,9 @@ func (k *Kernel) chunk(unix, lat, lon, alt, az []float64, ph []Phase, refr float
 			k.fill(c, ck)
 		}
 		// Greenwich hour angle + longitude = local hour angle; declination.
-		h[i] = c.gha[0] + u*(c.gha[1]+u*(c.gha[2]+u*c.gha[3])) + lon[i]
-		sd[i] = c.sinDec[0] + u*(c.sinDec[1]+u*(c.sinDec[2]+u*c.sinDec[3]))
-		cd[i] = c.cosDec[0] + u*(c.cosDec[1]+u*(c.cosDec[2]+u*c.cosDec[3]))
+		h[i] = c.gha[0] + u*(c.gha[1]+u*(c.gha[2]+u*(c.gha[3]+u*(c.gha[4]+u*c.gha[5])))) + lon[i]
+		sd[i] = c.sinDec[0] + u*(c.sinDec[1]+u*(c.sinDec[2]+u*(c.sinDec[3]+u*(c.sinDec[4]+u*c.sinDec[5]))))
+		cd[i] = c.cosDec[0] + u*(c.cosDec[1]+u*(c.cosDec[2]+u*(c.cosDec[3]+u*(c.cosDec[4]+u*c.cosDec[5]))))
 		xi[i] = c.sinXi
 	}
 	// Pass 2: sines and cosines of hour angle and latitude.
@@ -231,17 +231,19 @@ func (k *Kernel) chunk(unix, lat, lon, alt, az []float64, ph []Phase, refr float
 // eSq is the squared eccentricity 1 − (b/a)² of the Earth ellipsoid of NREL/TP-560-34302 Eq. 38–39.
 const eSq = 1 - earthAxisRatio*earthAxisRatio
 
-// fill computes cell ck from its four nodes.
+// fill computes cell ck from its six nodes.
 func (k *Kernel) fill(c *cell, ck int64) {
-	n0, n1, n2, n3 := k.node(ck-1), k.node(ck), k.node(ck+1), k.node(ck+2)
+	var nd [6]*node
+	for j := range nd {
+		nd[j] = k.node(ck - 2 + int64(j))
+	}
 	// Greenwich hour angle ν − α = ν0 + Δψ·cosε − α. The mean sidereal time is exact and nearly linear in
 	// time; the rest is smooth and is interpolated relative to the cell's start node.
-	q := n1.nutRA - n1.ra
-	dq := [4]float64{
-		wrap180(n0.nutRA - n0.ra - q),
-		0,
-		wrap180(n2.nutRA - n2.ra - q),
-		wrap180(n3.nutRA - n3.ra - q),
+	q := nd[2].nutRA - nd[2].ra
+	var dq, sd, cd [6]float64
+	for j, n := range nd {
+		dq[j] = wrap180(n.nutRA - n.ra - q)
+		sd[j], cd[j] = n.sinDec, n.cosDec
 	}
 	unix := float64(ck) * gridStep
 	jd := JulianDay(unix)
@@ -251,19 +253,31 @@ func (k *Kernel) fill(c *cell, ck int64) {
 	c.gha = lagrange(dq)
 	c.gha[0] = wrap360(meanSiderealTime(jd, jc) + q)
 	c.gha[1] += rate * (gridStep / secondsPerDay)
-	c.sinDec = lagrange([4]float64{n0.sinDec, n1.sinDec, n2.sinDec, n3.sinDec})
-	c.cosDec = lagrange([4]float64{n0.cosDec, n1.cosDec, n2.cosDec, n3.cosDec})
-	c.sinXi = (n1.sinXi + n2.sinXi) / 2
+	c.sinDec = lagrange(sd)
+	c.cosDec = lagrange(cd)
+	c.sinXi = (nd[2].sinXi + nd[3].sinXi) / 2
 	c.tag = ck
 }
 
-// lagrange returns the coefficients c of the cubic c0 + c1·u + c2·u² + c3·u³ through the values f at
-// u = −1, 0, 1, 2.
-func lagrange(f [4]float64) [4]float64 {
-	c2 := (f[0]+f[2])/2 - f[1]
-	c3 := (f[3]-f[0])/6 + (f[1]-f[2])/2
-	c1 := f[2] - f[1] - c2 - c3
-	return [4]float64{f[1], c1, c2, c3}
+// lagrangeMatrix turns the values f at u = −2, −1, 0, 1, 2, 3 into the coefficients c of the quintic
+// Σ c[i]·uⁱ through them: the inverse of the Vandermonde matrix of those nodes (exact fractions).
+var lagrangeMatrix = [6][6]float64{
+	{0, 0, 1, 0, 0, 0},
+	{1.0 / 20, -1.0 / 2, -1.0 / 3, 1, -1.0 / 4, 1.0 / 30},
+	{-1.0 / 24, 2.0 / 3, -5.0 / 4, 2.0 / 3, -1.0 / 24, 0},
+	{-1.0 / 24, -1.0 / 24, 5.0 / 12, -7.0 / 12, 7.0 / 24, -1.0 / 24},
+	{1.0 / 24, -1.0 / 6, 1.0 / 4, -1.0 / 6, 1.0 / 24, 0},
+	{-1.0 / 120, 1.0 / 24, -1.0 / 12, 1.0 / 12, -1.0 / 24, 1.0 / 120},
+}
+
+// lagrange returns the coefficients of the quintic through the values f at u = −2…3.
+func lagrange(f [6]float64) (c [6]float64) {
+	for i, row := range lagrangeMatrix {
+		for j, m := range row {
+			c[i] += m * f[j]
+		}
+	}
+	return c
 }
 
 // node returns node number nk (instant nk·gridStep), computing it if it is not cached.

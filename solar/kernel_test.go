@@ -265,3 +265,24 @@ func TestKernelKeepsItsOptions(t *testing.T) {
 		}
 	}
 }
+
+// TestLagrange checks that the interpolation matrix reproduces every polynomial of degree up to 5 from its
+// values at the nodes u = −2…3.
+func TestLagrange(t *testing.T) {
+	for deg := 0; deg <= 5; deg++ {
+		var f [6]float64
+		for j := range f {
+			f[j] = math.Pow(float64(j-2), float64(deg))
+		}
+		c := lagrange(f)
+		for i, v := range c {
+			want := 0.0
+			if i == deg {
+				want = 1
+			}
+			if !within(v, want, 1e-12) {
+				t.Errorf("u^%d: coefficient %d = %v, want %v", deg, i, v, want)
+			}
+		}
+	}
+}
