@@ -44,9 +44,12 @@ type cell struct {
 }
 
 // Kernel is the batch path of the package: it computes altitude, azimuth and light phase for many rows at
-// a time, at the accuracy of [Position] within 0.0005°. It caches geocentric quantities between calls, so one
-// kernel should serve every batch a worker handles. A Kernel is not safe for concurrent use: give each
-// goroutine its own.
+// a time, within 0.0005° of [Position] (under 1e-6° in the tests, 1900–2100 and -2000…6000; the one
+// exception is the week around 3000-01-01, where the ΔT model steps by 150 s and rows may differ by up to
+// 0.002°). It caches geocentric quantities between calls, so one kernel should serve every batch a worker
+// handles: a batch of instants within a year then costs no reference evaluation after the first, and the
+// caches hold 44 years of instants (89 years of the underlying grid) before rows start to evict each other.
+// A Kernel is not safe for concurrent use: give each goroutine its own.
 type Kernel struct {
 	ok      bool    // options valid
 	refr    float64 // refraction scale × 1.02/60, degrees; 0 with Options.NoRefraction
@@ -58,7 +61,7 @@ type Kernel struct {
 }
 
 // NewKernel returns a kernel for the given options (see [Options]; validate them first with
-// [Options.Validate]: with invalid options every row gets NaN and PhaseUnknown). It allocates about 0.9 MB of
+// [Options.Validate]: with invalid options every row gets NaN and PhaseUnknown). It allocates about 2 MB of
 // caches.
 func NewKernel(o Options) *Kernel {
 	k := &Kernel{

@@ -59,9 +59,9 @@ var phaseByLevel = [5][2]Phase{
 }
 
 // PhaseOf returns the light phase for a geometric (unrefracted) altitude of the sun's centre and its local
-// hour angle, both in degrees: twilight is morning when the hour angle is negative in (-180, 180] (the sun
-// before the meridian), evening otherwise. Pass Pos.GeometricAltitude and Pos.HourAngle. NaN altitude gives
-// PhaseUnknown.
+// hour angle, both in degrees: twilight is morning when the hour angle, reduced to (-180, 180], is negative
+// (the sun before the meridian), evening otherwise. Pass Pos.GeometricAltitude and Pos.HourAngle. A NaN
+// altitude gives PhaseUnknown.
 func PhaseOf(geometricAltitude, hourAngle float64) Phase {
 	a := geometricAltitude
 	if a != a {

@@ -11,7 +11,7 @@ const (
 	// StandardTemperature is the temperature, °C, that a nil [Options] Temperature stands for.
 	StandardTemperature = 10.0
 
-	// earthRadius is the equatorial radius of the Earth in metres and earthFlattening the polar/equatorial
+	// earthRadius is the equatorial radius of the Earth in metres and earthAxisRatio the polar/equatorial
 	// axis ratio 1 − f, as used by NREL/TP-560-34302, §3.12 (Eq. 38–40).
 	earthRadius    = 6378140.0
 	earthAxisRatio = 0.99664719
