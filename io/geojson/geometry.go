@@ -1,0 +1,148 @@
+package geojson
+
+import (
+	"encoding/json"
+	"errors"
+	"fmt"
+
+	"github.com/paulmach/orb"
+	ogeojson "github.com/paulmach/orb/geojson"
+
+	"github.com/heliotag/heliotag/io/internal/geom"
+)
+
+// maxCollectionDepth bounds GeometryCollections nested in one another.
+const maxCollectionDepth = 32
+
+// positionDepth is how deeply positions nest in each geometry type's
+// "coordinates" (RFC 7946 §3.1).
+var positionDepth = map[string]int{
+	"Point": 1, "MultiPoint": 2, "LineString": 2,
+	"MultiLineString": 3, "Polygon": 3, "MultiPolygon": 4,
+}
+
+// location returns the representative point of a geometry value (JSON
+// text, not null). Errors wrap ErrGeometry.
+func location(raw []byte) (orb.Point, error) {
+	if err := checkGeometry(raw, 0); err != nil {
+		return orb.Point{}, err
+	}
+	var g ogeojson.Geometry
+	if err := json.Unmarshal(raw, &g); err != nil {
+		return orb.Point{}, fmt.Errorf("%w: %w", ErrGeometry, err)
+	}
+	p, err := geom.Representative(g.Geometry())
+	if err != nil {
+		return orb.Point{}, fmt.Errorf("%w: %w", ErrGeometry, err)
+	}
+	return p, nil
+}
+
+// checkGeometry checks the shape of a geometry object before orb reads it:
+// orb reads a missing position as 0, 0, which would put the row at the
+// wrong place instead of rejecting it.
+func checkGeometry(b []byte, depth int) error {
+	i := skipSpace(b, 0)
+	if i >= len(b) {
+		return fmt.Errorf("%w: geometry is empty text", ErrGeometry)
+	}
+	if b[i] != '{' {
+		return fmt.Errorf("%w: geometry is %s; expected an object such as {\"type\": \"Point\", \"coordinates\": [lon, lat]}", ErrGeometry, kindName(b[i]))
+	}
+	var typ string
+	var coords, geoms []byte
+	hasType := false
+	for p := i + 1; ; {
+		m, end, ok := nextMember(b, p)
+		if !ok {
+			break
+		}
+		p = end
+		switch {
+		case keyIs(b[m.key0:m.key1], "type"):
+			hasType = true
+			if b[m.val0] == '"' {
+				typ = unquote(b[m.val0:m.val1])
+			}
+		case keyIs(b[m.key0:m.key1], "coordinates"):
+			coords = b[m.val0:m.val1]
+		case keyIs(b[m.key0:m.key1], "geometries"):
+			geoms = b[m.val0:m.val1]
+		}
+	}
+	if !hasType {
+		return fmt.Errorf("%w: geometry has no \"type\"", ErrGeometry)
+	}
+	if typ == "GeometryCollection" {
+		if depth >= maxCollectionDepth {
+			return fmt.Errorf("%w: GeometryCollections nested more than %d deep", ErrGeometry, maxCollectionDepth)
+		}
+		if len(geoms) == 0 || geoms[0] != '[' {
+			return fmt.Errorf("%w: GeometryCollection needs a \"geometries\" array", ErrGeometry)
+		}
+		for p := 1; ; {
+			p = skipSpace(geoms, p)
+			if p < len(geoms) && geoms[p] == ',' {
+				p = skipSpace(geoms, p+1)
+			}
+			if p >= len(geoms) || geoms[p] == ']' {
+				return nil
+			}
+			end := skipValue(geoms, p)
+			if geoms[p] == 'n' {
+				return fmt.Errorf("%w: a member of a GeometryCollection is null", ErrGeometry)
+			}
+			if err := checkGeometry(geoms[p:end], depth+1); err != nil {
+				return err
+			}
+			p = end
+		}
+	}
+	want, known := positionDepth[typ]
+	if !known {
+		return fmt.Errorf("%w: unknown geometry type %q; RFC 7946 types are Point, MultiPoint, LineString, MultiLineString, Polygon, MultiPolygon, GeometryCollection", ErrGeometry, typ)
+	}
+	if len(coords) == 0 || coords[0] != '[' {
+		return fmt.Errorf("%w: %s needs a \"coordinates\" array", ErrGeometry, typ)
+	}
+	if err := checkCoordinates(coords, want); err != nil {
+		return fmt.Errorf("%w: %s coordinates: %w", ErrGeometry, typ, err)
+	}
+	return nil
+}
+
+var (
+	errPosition = errors.New("a position needs at least longitude and latitude, e.g. [8.54, 47.37]")
+	errNesting  = errors.New("arrays nested at the wrong depth for this type")
+)
+
+// checkCoordinates checks that positions sit at nesting depth want and hold
+// at least two numbers each, and that nothing but arrays sits above them.
+func checkCoordinates(b []byte, want int) error {
+	depth, count := 0, 0
+	for i := 0; i < len(b); i++ {
+		switch c := b[i]; {
+		case isSpace(c) || c == ',':
+		case c == '[':
+			depth++
+			if depth > want {
+				return errNesting
+			}
+			count = 0
+		case c == ']':
+			if depth == want && count < 2 {
+				return errPosition
+			}
+			depth--
+		case c == '-' || (c >= '0' && c <= '9'):
+			if depth != want {
+				return errNesting
+			}
+			count++
+			i = skipValue(b, i) - 1
+		default:
+			return fmt.Errorf("%s where a number or an array was expected", kindName(c))
+		}
+	}
+	return nil
+}
