@@ -56,6 +56,36 @@ func BenchmarkKernelCold(b *testing.B) {
 	b.ReportMetric(float64(n*b.N)/b.Elapsed().Seconds(), "rows/s")
 }
 
+// BenchmarkKernelSpread measures the batch path on 64k rows whose instants spread over two centuries
+// (1900–2100) and over the whole valid range (-2000…6000), in random order, with a kernel reused across
+// batches: the worst cases for its caches.
+func BenchmarkKernelSpread(b *testing.B) {
+	for _, span := range []struct {
+		name   string
+		lo, hi float64
+	}{
+		{"1900-2100", yearUnix(1900), yearUnix(2100)},
+		{"-2000-6000", MinUnix, MaxUnix - 1},
+	} {
+		b.Run(span.name, func(b *testing.B) {
+			const n = 65536
+			unix, lat, lon := benchRows(n)
+			rng := rand.New(rand.NewPCG(8, 8))
+			for i := range unix {
+				unix[i] = span.lo + rng.Float64()*(span.hi-span.lo)
+			}
+			k := NewKernel(Options{})
+			var out Positions
+			k.Positions(unix, lat, lon, &out)
+			b.ReportAllocs()
+			for b.Loop() {
+				k.Positions(unix, lat, lon, &out)
+			}
+			b.ReportMetric(float64(n*b.N)/b.Elapsed().Seconds(), "rows/s")
+		})
+	}
+}
+
 // BenchmarkPosition measures the reference path for one row.
 func BenchmarkPosition(b *testing.B) {
 	unix, lat, lon := benchRows(1024)

@@ -9,19 +9,19 @@ import (
 // polynomials through the six surrounding nodes (Lagrange interpolation at u = −2…3 in units of the step).
 // Per row it only evaluates the polynomials and does the topocentric part. Nodes and cells are kept in
 // direct-mapped caches indexed by their number, so they are computed once per kernel however the rows are
-// ordered, and are reused by later batches.
+// ordered, and are reused by later batches. The caches start small (a few years of instants) and grow, up to
+// a limit, when the rows' instants spread wider than they hold.
 //
 // Interpolation error for a 2-day step h: the fastest terms of the sun's apparent place that matter are
 // nutation (period 13.7 d, amplitude 0.00006°) and the Moon's pull on the Earth (period 29.5 d, 0.0018°). On
 // the middle interval of six nodes a quintic errs by at most 0.0049·(ωh)⁶ times a term's amplitude: about
 // 2e-7° and 5e-8°. TestKernelAccuracy measures the total against the reference path (under 1e-6°).
 const (
-	gridStep  = 2 * secondsPerDay // seconds between nodes
-	cellBits  = 13                // 8192 cells: 44 years of 2-day cells without collisions
-	nodeBits  = 14                // 16384 nodes: 89 years
-	cellMask  = 1<<cellBits - 1
-	nodeMask  = 1<<nodeBits - 1
-	emptySlot = math.MinInt64 // tag of a slot never filled
+	gridStep     = 2 * secondsPerDay // seconds between nodes
+	minCellSlots = 1 << 10           // 1024 cells: 5.6 years of 2-day cells without collisions
+	maxCellSlots = 1 << 15           // 32768 cells: 179 years
+	nodesPerCell = 2                 // node slots per cell slot: nodes reach twice as far
+	emptySlot    = math.MinInt64     // tag of a slot never filled
 )
 
 // node holds the geocentric quantities the batch path needs at one grid instant.
@@ -47,30 +47,33 @@ type cell struct {
 // a time, within 0.0005° of [Position] (under 1e-6° in the tests, 1900–2100 and -2000…6000; the one
 // exception is the week around 3000-01-01, where the ΔT model steps by 150 s and rows may differ by up to
 // 0.002°). It caches geocentric quantities between calls, so one kernel should serve every batch a worker
-// handles: a batch of instants within a year then costs no reference evaluation after the first, and the
-// caches hold 44 years of instants (89 years of the underlying grid) before rows start to evict each other.
+// handles: a batch of instants within a year then costs no reference evaluation after the first. The caches
+// grow to hold 179 years of instants (359 years of the underlying grid); rows spread so thinly that the grid
+// does not pay (about one new grid cell per row) cost one reference evaluation each.
 // A Kernel is not safe for concurrent use: give each goroutine its own.
 type Kernel struct {
-	ok      bool    // options valid
-	refr    float64 // refraction scale × 1.02/60, degrees; 0 with Options.NoRefraction
-	elev    float64 // observer elevation / equatorial radius
-	options Options // for ΔT at the nodes
-	cells   []cell
-	nodes   []node
-	scratch scratch
+	ok            bool    // options valid
+	refr          float64 // refraction scale × 1.02/60, degrees; 0 with Options.NoRefraction
+	elev          float64 // observer elevation / equatorial radius
+	options       Options // for ΔT at the nodes
+	cells         []cell  // len is a power of two
+	nodes         []node  // len is nodesPerCell × len(cells)
+	evictions     int     // cells and nodes replaced since the caches were last (re)built
+	rows          int     // rows done so far in the current Positions call
+	callEvictions int     // nodes replaced in the current Positions call
+	exact         cell    // one instant's values, for rows too spread for the grid
+	scratch       scratch
 }
 
 // NewKernel returns a kernel for the given options (see [Options]; validate them first with
-// [Options.Validate]: with invalid options every row gets NaN and PhaseUnknown). It allocates about 2 MB of
-// caches.
+// [Options.Validate]: with invalid options every row gets NaN and PhaseUnknown). Its caches take 260 kB at
+// first and grow up to 8 MB when the rows' instants span more than a few years.
 func NewKernel(o Options) *Kernel {
 	k := &Kernel{
 		ok:      o.Validate() == nil,
 		refr:    o.refractionScale() * 1.02 / 60,
 		elev:    o.Elevation / earthRadius,
 		options: o,
-		cells:   make([]cell, 1<<cellBits),
-		nodes:   make([]node, 1<<nodeBits),
 	}
 	if o.NoRefraction {
 		k.refr = 0
@@ -81,13 +84,29 @@ func NewKernel(o Options) *Kernel {
 	if o.Temperature != nil {
 		k.options.Temperature = ptrTo(*o.Temperature)
 	}
+	k.allocate(minCellSlots)
+	return k
+}
+
+// allocate replaces the caches with empty ones of n cell slots.
+func (k *Kernel) allocate(n int) {
+	k.cells = make([]cell, n)
+	k.nodes = make([]node, nodesPerCell*n)
 	for i := range k.cells {
 		k.cells[i].tag = emptySlot
 	}
 	for i := range k.nodes {
 		k.nodes[i].tag = emptySlot
 	}
-	return k
+	k.evictions = 0
+}
+
+// grow quadruples the caches, up to maxCellSlots, once the rows have evicted as many entries as the caches
+// hold: their instants spread wider than the caches reach.
+func (k *Kernel) grow() {
+	if k.evictions >= len(k.cells) && len(k.cells) < maxCellSlots {
+		k.allocate(min(4*len(k.cells), maxCellSlots))
+	}
 }
 
 func ptrTo(v float64) *float64 { return &v }
@@ -134,9 +153,12 @@ func (k *Kernel) Positions(unix, lat, lon []float64, out *Positions) {
 		return
 	}
 	refr, s := k.refr, &k.scratch
+	k.rows, k.callEvictions = 0, 0
 	for lo := 0; lo < n; lo += chunkRows {
 		hi := min(lo+chunkRows, n)
 		k.chunk(unix[lo:hi], lat[lo:hi], lon[lo:hi], alt[lo:hi], az[lo:hi], ph[lo:hi], refr, s)
+		k.rows += hi - lo
+		k.grow()
 	}
 }
 
@@ -156,6 +178,8 @@ func (k *Kernel) chunk(unix, lat, lon, alt, az []float64, ph []Phase, refr float
 	h, sd, cd, xi := s.h[:n], s.sd[:n], s.cd[:n], s.xi[:n]
 	// Pass 1: interpolate the geocentric quantities to each row's instant.
 	invalid := 0
+	cells := k.cells
+	mask := int64(len(cells) - 1)
 	for i, t := range unix {
 		if !valid(t, lat[i], lon[i]) {
 			h[i], sd[i], cd[i], xi[i] = 0, 0, 1, 0 // overwritten with NaN in the last pass
@@ -166,9 +190,17 @@ func (k *Kernel) chunk(unix, lat, lon, alt, az []float64, ph []Phase, refr float
 		fk := math.Floor(f)
 		u := f - fk
 		ck := int64(fk)
-		c := &k.cells[ck&cellMask]
+		c := &cells[ck&mask]
 		if c.tag != ck {
-			k.fill(c, ck)
+			if k.thrashing() && !k.cached(ck) && !k.cached(ck+1) {
+				// The rows spread wider than the largest caches hold, so the grid does not pay (up to six
+				// evaluations per cell, soon evicted): evaluate this row's instant exactly instead, as
+				// constant "polynomials".
+				c, u = &k.exact, 0
+				k.evaluate(c, t)
+			} else {
+				k.fill(c, ck)
+			}
 		}
 		// Greenwich hour angle + longitude = local hour angle; declination.
 		h[i] = c.gha[0] + u*(c.gha[1]+u*(c.gha[2]+u*(c.gha[3]+u*(c.gha[4]+u*c.gha[5])))) + lon[i]
@@ -259,6 +291,9 @@ func (k *Kernel) fill(c *cell, ck int64) {
 	c.sinDec = lagrange(sd)
 	c.cosDec = lagrange(cd)
 	c.sinXi = (nd[2].sinXi + nd[3].sinXi) / 2
+	if c.tag != emptySlot {
+		k.evictions++
+	}
 	c.tag = ck
 }
 
@@ -283,11 +318,34 @@ func lagrange(f [6]float64) (c [6]float64) {
 	return c
 }
 
+// thrashing reports whether the caches are as large as they get and the current call keeps replacing nodes:
+// more than one for every eight rows so far, after a margin.
+func (k *Kernel) thrashing() bool {
+	return len(k.cells) == maxCellSlots && k.callEvictions > 64+k.rows/8
+}
+
+// cached reports whether node nk is in the cache.
+func (k *Kernel) cached(nk int64) bool {
+	return k.nodes[nk&int64(len(k.nodes)-1)].tag == nk
+}
+
+// evaluate sets c to the exact values at instant unix, as constant polynomials.
+func (k *Kernel) evaluate(c *cell, unix float64) {
+	g := GeocentricAt(JulianDay(unix), k.options.DeltaTAt(unix))
+	*c = cell{tag: emptySlot, sinXi: math.Sin(parallaxArcsec / (3600 * g.Distance) * deg)}
+	c.gha[0] = g.SiderealTime - g.RightAscension
+	c.sinDec[0], c.cosDec[0] = math.Sincos(g.Declination * deg)
+}
+
 // node returns node number nk (instant nk·gridStep), computing it if it is not cached.
 func (k *Kernel) node(nk int64) *node {
-	nd := &k.nodes[nk&nodeMask]
+	nd := &k.nodes[nk&int64(len(k.nodes)-1)]
 	if nd.tag == nk {
 		return nd
+	}
+	if nd.tag != emptySlot {
+		k.evictions++
+		k.callEvictions++
 	}
 	unix := float64(nk) * gridStep
 	g := GeocentricAt(JulianDay(unix), k.options.DeltaTAt(unix))
