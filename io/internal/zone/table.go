@@ -1,0 +1,204 @@
+package zone
+
+import (
+	"math"
+	"time"
+)
+
+// A table maps wall-clock seconds (the local date and time counted as if it were UTC, see
+// stamp.Stamp.Wall) of one zone to instants, exactly, using the zone's real rules as the time package
+// holds them.
+//
+// Every offset change at instant T from offset a to offset b shows on the wall clock as
+//   - a gap when b > a: the walls [T+a, T+b) never happen (spring forward);
+//   - an overlap when b < a: the walls [T+b, T+a) happen twice, first at offset a, then at offset b.
+//
+// Between such ranges each wall happens exactly once. The table lists the ranges' boundaries in
+// ascending wall order, from the zone's first rule up to transitions in the year 2100 or so, so
+// resolving a wall clock is one binary search. Walls past the table (or in a zone whose boundaries
+// would not be ascending) are resolved by search, a direct scan of the rules around the wall.
+
+const (
+	kindUnique  = iota // one instant: wall - off
+	kindOverlap        // two instants: wall - off (earlier) and wall - off2 (later)
+	kindGap            // no instant: clocks jump from the segment start (offset off) to its end (offset off2)
+)
+
+// seg is one range of walls. off and off2 are offsets in seconds east of UTC.
+type seg struct {
+	off, off2 int32
+	kind      uint8
+}
+
+type table struct {
+	starts []int64 // wall second at which segment i starts; starts[0] is math.MinInt64
+	segs   []seg
+	hi     int64 // walls >= hi are resolved by search
+}
+
+// tableEnd is the instant (2101-01-01T00:00:00Z) after which tables stop listing transitions.
+const tableEnd = 4133980800
+
+// minStart is an instant before year 1 (in any zone's offset), where tables start.
+const minStart = -62135596800 - 2*86400
+
+// offsetAt returns the offset in effect at Unix time sec.
+func offsetAt(loc *time.Location, sec int64) int {
+	_, off := time.Unix(sec, 0).In(loc).Zone()
+	return off
+}
+
+// buildTable lists loc's wall-clock segments.
+func buildTable(loc *time.Location) *table {
+	t := time.Unix(minStart, 0).In(loc)
+	_, prev := t.Zone()
+	tab := &table{starts: []int64{math.MinInt64}, segs: []seg{{off: int32(prev), kind: kindUnique}}}
+	broken := false
+	for {
+		_, end := t.ZoneBounds()
+		if !end.IsZero() && !end.After(t) {
+			end = stepOver(t)
+		}
+		if end.IsZero() {
+			if !broken {
+				tab.hi = math.MaxInt64
+			}
+			return tab
+		}
+		t = end
+		T := end.Unix()
+		_, next := t.Zone()
+		if next == prev {
+			continue // only the abbreviation or the DST flag changed
+		}
+		lo := T + int64(min(prev, next))
+		last := len(tab.starts) - 1
+		switch {
+		case broken:
+			tab.hi = min(tab.hi, lo)
+		case lo < tab.starts[last]:
+			// The change reaches back over walls already listed: stop the table below every wall this
+			// or a later change can reach, and resolve those walls by search.
+			broken = true
+			tab.hi = lo
+		default:
+			if lo == tab.starts[last] { // an empty segment: replace it
+				tab.starts, tab.segs = tab.starts[:last], tab.segs[:last]
+			}
+			if next > prev {
+				tab.add(T+int64(prev), seg{off: int32(prev), off2: int32(next), kind: kindGap})
+				tab.add(T+int64(next), seg{off: int32(next), kind: kindUnique})
+			} else {
+				tab.add(T+int64(next), seg{off: int32(prev), off2: int32(next), kind: kindOverlap})
+				tab.add(T+int64(prev), seg{off: int32(next), kind: kindUnique})
+			}
+		}
+		prev = next
+		if T > tableEnd {
+			if !broken {
+				tab.hi = tab.starts[len(tab.starts)-1]
+			}
+			return tab
+		}
+	}
+}
+
+func (t *table) add(start int64, s seg) {
+	t.starts = append(t.starts, start)
+	t.segs = append(t.segs, s)
+}
+
+// find returns the index of the segment holding wall w (w < t.hi).
+func (t *table) find(w int64) int {
+	lo, hi := 0, len(t.starts) // starts[lo] <= w < starts[hi]
+	for hi-lo > 1 {
+		mid := int(uint(lo+hi) >> 1)
+		if t.starts[mid] <= w {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	return lo
+}
+
+// result describes how a wall clock maps to instants.
+type result struct {
+	kind     uint8
+	off      int   // unique: the offset; overlap: the earlier instant's offset; gap: offset before
+	off2     int   // overlap: the later instant's offset; gap: offset after
+	from, to int64 // gap: the walls the clocks jump from and to
+}
+
+// lookup resolves wall w with the table, or by search past it.
+func (t *table) lookup(loc *time.Location, w int64) result {
+	if w >= t.hi {
+		return search(loc, w)
+	}
+	i := t.find(w)
+	s := t.segs[i]
+	r := result{kind: s.kind, off: int(s.off), off2: int(s.off2)}
+	if s.kind == kindGap {
+		r.from, r.to = t.starts[i], t.starts[i+1]
+	}
+	return r
+}
+
+// stepOver returns the second after t. ZoneBounds of an instant at a year boundary in a zone's
+// rule-based future (past the transitions its data lists) can report a period ending at that very
+// instant; the offset does not change there, and the next second lies in the following period.
+func stepOver(t time.Time) time.Time {
+	return time.Unix(t.Unix()+1, 0).In(t.Location())
+}
+
+// searchReach bounds how far in time search looks for rules around a wall (real offsets stay well
+// within ±26 h).
+const searchReach = 30 * 3600
+
+// search resolves wall w by scanning the zone's periods (ZoneBounds) that overlap the instants
+// [w-searchReach, w+searchReach]: every period whose offset maps w inside itself yields an instant.
+func search(loc *time.Location, w int64) result {
+	t := time.Unix(w-searchReach, 0).In(loc)
+	var r, gap result
+	n := 0
+	havePrev := false
+	prev := 0
+	for {
+		_, off := t.Zone()
+		start, end := t.ZoneBounds()
+		if !end.IsZero() && !end.After(t) {
+			t = stepOver(t)
+			continue
+		}
+		c := w - int64(off)
+		if (start.IsZero() || c >= start.Unix()) && (end.IsZero() || c < end.Unix()) {
+			switch n {
+			case 0:
+				r.off = off
+			case 1:
+				r.off2 = off
+			}
+			n++
+		}
+		if havePrev && off > prev && !start.IsZero() {
+			if T := start.Unix(); T+int64(prev) <= w && w < T+int64(off) {
+				gap = result{kind: kindGap, off: prev, off2: off, from: T + int64(prev), to: T + int64(off)}
+			}
+		}
+		if end.IsZero() || end.Unix() > w+searchReach {
+			break
+		}
+		prev, havePrev = off, true
+		t = end
+	}
+	switch n {
+	case 0:
+		r = gap
+		r.kind = kindGap
+	case 1:
+		r.kind = kindUnique
+	default:
+		r.kind = kindOverlap // periods come in time order, so r.off gives the earlier instant
+	}
+	return r
+}
