@@ -62,12 +62,13 @@ type Kernel struct {
 	rows          int     // rows done so far in the current Positions call
 	callEvictions int     // nodes replaced in the current Positions call
 	exact         cell    // one instant's values, for rows too spread for the grid
+	exactRows     int     // rows evaluated exactly since the kernel was made
 	scratch       scratch
 }
 
 // NewKernel returns a kernel for the given options (see [Options]; validate them first with
 // [Options.Validate]: with invalid options every row gets NaN and PhaseUnknown). Its caches take 260 kB at
-// first and grow up to 8 MB when the rows' instants span more than a few years.
+// first and grow up to about 8 MB when the rows' instants span more than a few years.
 func NewKernel(o Options) *Kernel {
 	k := &Kernel{
 		ok:      o.Validate() == nil,
@@ -198,6 +199,7 @@ func (k *Kernel) chunk(unix, lat, lon, alt, az []float64, ph []Phase, refr float
 				// constant "polynomials".
 				c, u = &k.exact, 0
 				k.evaluate(c, t)
+				k.exactRows++
 			} else {
 				k.fill(c, ck)
 			}

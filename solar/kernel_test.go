@@ -119,6 +119,12 @@ func TestKernelAccuracy(t *testing.T) {
 	}
 	t.Logf("%d rows (%d at the refraction cutoff skipped): max |Δaltitude| %.2g°, max |Δazimuth| %.2g°",
 		rows, skipped, maxAlt, maxAz)
+	// The reused kernels saw rows spanning two centuries: their caches have grown beyond the initial size.
+	for i, k := range kernels {
+		if len(k.cells) <= minCellSlots {
+			t.Errorf("kernel %d kept %d cell slots after rows spanning decades", i, len(k.cells))
+		}
+	}
 }
 
 // nearPhaseEdge reports whether p is within 1e-6° of a phase threshold or of the meridian, where the two
@@ -166,6 +172,13 @@ func TestKernelWholeRange(t *testing.T) {
 	if worstAlt > 0.0005 || worstAz > 0.0005 {
 		t.Errorf("largest differences from the reference: altitude %.3g°, azimuth %.3g°", worstAlt, worstAz)
 	}
+	// Rows spread over 8000 years outgrow the caches: the kernel has grown them to the limit and evaluates
+	// such rows exactly.
+	if len(k.cells) != maxCellSlots || k.exactRows == 0 {
+		t.Errorf("after rows spread over 8000 years: %d cell slots (want %d), %d rows evaluated exactly (want some)",
+			len(k.cells), maxCellSlots, k.exactRows)
+	}
+	t.Logf("%d of %d rows evaluated exactly", k.exactRows, 20*1000)
 	t.Logf("largest differences from the reference: altitude %.3g°, azimuth %.3g°", worstAlt, worstAz)
 }
 
