@@ -1,0 +1,375 @@
+// Package csv reads and writes delimited text (CSV, TSV) for heliotag.
+//
+// The reader finds record boundaries only (a quote-aware scan for line ends)
+// and hands raw record bytes to the workers, which split fields, read the
+// location and time, and write each original record back byte for byte with
+// the added columns appended. A record may span lines inside a quoted field;
+// empty lines are passed over and are not rows. The first record is the
+// header. A UTF-8 byte order mark is removed on input and written back on
+// output; the output uses the input's line ending (LF or CRLF).
+//
+// Quoting follows RFC 4180: a field holding the delimiter, a quote or a line
+// break is quoted, and quotes inside it are doubled. TSV uses the same rules
+// with a tab as the delimiter.
+package csv
+
+import (
+	"bufio"
+	"bytes"
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"strconv"
+	"sync"
+	"time"
+
+	"github.com/heliotag/heliotag/enrich"
+	"github.com/heliotag/heliotag/io/internal/fields"
+)
+
+// MaxRecordBytes bounds one record's size; a longer one is a fatal error
+// (it usually means an unclosed quote swallowing the rest of the file).
+const MaxRecordBytes = 64 << 20
+
+// Sentinel errors for whole-file problems.
+var (
+	ErrNoHeader       = errors.New("no header row")
+	ErrRecordTooLarge = errors.New("record too large")
+	ErrUnclosedQuote  = errors.New("quoted field not closed")
+)
+
+// Options configures a Reader.
+type Options struct {
+	// Delimiter separates fields; 0 means ','.
+	Delimiter byte
+	// Select names the location and time columns (empty names are detected).
+	Select enrich.Select
+}
+
+// Reader reads records from delimited text. Its chunks implement enrich.Chunk.
+type Reader struct {
+	r       *bufio.Reader
+	delim   byte
+	header  []string
+	headRaw []byte
+	bom     bool
+	crlf    bool
+	x       *fields.Extractor
+	line    int64 // lines consumed so far
+	counter *countingReader
+	size    int64
+	pool    *sync.Pool // output buffers
+}
+
+type countingReader struct {
+	r io.Reader
+	n int64
+}
+
+func (c *countingReader) Read(p []byte) (int, error) {
+	n, err := c.r.Read(p)
+	c.n += int64(n)
+	return n, err
+}
+
+// NewReader reads the header from r and resolves the columns. size is the
+// input's size in bytes for progress (0 when unknown). Problems with the
+// header or the column choice are returned here, before any row is read.
+func NewReader(r io.Reader, size int64, o Options) (*Reader, error) {
+	d := o.Delimiter
+	if d == 0 {
+		d = ','
+	}
+	if d == '"' || d == '\n' || d == '\r' {
+		return nil, fmt.Errorf("%w: delimiter %q cannot be used; use ',', ';', '|' or tab", enrich.ErrUsage, d)
+	}
+	cr := &countingReader{r: r}
+	rd := &Reader{r: bufio.NewReaderSize(cr, 1<<20), delim: d, counter: cr, size: size}
+	rd.pool = &sync.Pool{New: func() any { return new(bytes.Buffer) }}
+	if b, err := rd.r.Peek(3); err == nil && bytes.Equal(b, []byte{0xEF, 0xBB, 0xBF}) {
+		rd.bom = true
+		_, _ = rd.r.Discard(3)
+	}
+	var raw []byte
+	for {
+		rec, lines, err := rd.readRecord(nil)
+		if err == io.EOF {
+			return nil, fmt.Errorf("%w: the input is empty; the first line must name the columns", ErrNoHeader)
+		}
+		if err != nil {
+			return nil, err
+		}
+		rd.line += lines
+		if len(trimEOL(rec)) > 0 {
+			raw = rec
+			break
+		}
+	}
+	rd.crlf = bytes.HasSuffix(raw, []byte("\r\n"))
+	rd.headRaw = append([]byte(nil), trimEOL(raw)...)
+	h, err := splitRecord(nil, rd.headRaw, d)
+	if err != nil {
+		return nil, fmt.Errorf("header (line %d): %w", rd.line, err)
+	}
+	rd.header = make([]string, len(h))
+	copy(rd.header, h) // views into headRaw, which is never changed
+	seen := map[string]int{}
+	for i, name := range rd.header {
+		if j, dup := seen[name]; dup {
+			return nil, fmt.Errorf("%w: header has the column name %q twice (columns %d and %d); names must be unique", enrich.ErrUsage, name, j+1, i+1)
+		}
+		seen[name] = i
+	}
+	if len(rd.header) == 1 && d == ',' {
+		for _, alt := range []byte{';', '\t', '|'} {
+			if bytes.IndexByte(rd.headRaw, alt) >= 0 {
+				return nil, fmt.Errorf("%w: the header has one column %q; the file looks %q-delimited: give --delimiter %s", enrich.ErrUsage, rd.header[0], alt, delimName(alt))
+			}
+		}
+	}
+	if rd.x, err = fields.New(rd.header, o.Select); err != nil {
+		return nil, err
+	}
+	return rd, nil
+}
+
+func delimName(b byte) string {
+	if b == '\t' {
+		return "tab"
+	}
+	return string(b)
+}
+
+// readRecord appends the next record's raw bytes (with its line terminator)
+// to dst; lines is the number of line breaks it spans. A record continues over
+// line breaks while a quote is open (odd number of quotes so far).
+func (rd *Reader) readRecord(dst []byte) (rec []byte, lines int64, err error) {
+	start := len(dst)
+	quotes := 0
+	for {
+		part, err := rd.r.ReadSlice('\n')
+		if len(part) > 0 {
+			dst = append(dst, part...)
+			quotes += bytes.Count(part, []byte{'"'})
+			if part[len(part)-1] == '\n' {
+				lines++
+			}
+			if len(dst)-start > MaxRecordBytes {
+				return dst, lines, fmt.Errorf("%w: a record starting at line %d is longer than %d MiB; is a quote left open?", ErrRecordTooLarge, rd.line+1, MaxRecordBytes>>20)
+			}
+		}
+		switch {
+		case err == bufio.ErrBufferFull:
+			continue
+		case err == io.EOF:
+			if len(dst) == start {
+				return dst, lines, io.EOF
+			}
+			if quotes%2 == 1 {
+				return dst, lines, fmt.Errorf("%w: the quoted field of the record starting at line %d runs to the end of the input; close it with \"", ErrUnclosedQuote, rd.line+1)
+			}
+			return dst, lines, nil
+		case err != nil:
+			return dst, lines, fmt.Errorf("reading input: %w", err)
+		}
+		if quotes%2 == 0 {
+			return dst, lines, nil
+		}
+	}
+}
+
+func trimEOL(b []byte) []byte {
+	b = bytes.TrimSuffix(b, []byte("\n"))
+	return bytes.TrimSuffix(b, []byte("\r"))
+}
+
+// Columns returns the header's column names.
+func (rd *Reader) Columns() []string { return rd.header }
+
+// Roles names the location and time columns in use.
+func (rd *Reader) Roles() enrich.Roles { return rd.x.Roles() }
+
+// Choices says which columns are used and how each was chosen.
+func (rd *Reader) Choices() []enrich.Choice { return rd.x.Choices() }
+
+// Position reports bytes read and the input size (for progress).
+func (rd *Reader) Position() (done, total int64) { return rd.counter.n, rd.size }
+
+// Close does nothing: the caller owns the underlying reader.
+func (rd *Reader) Close() error { return nil }
+
+// Next reads up to max records.
+func (rd *Reader) Next(ctx context.Context, max int) (enrich.Chunk, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, context.Cause(ctx)
+	}
+	c := &chunk{rd: rd, buf: make([]byte, 0, 64*max)}
+	for len(c.ends) < max {
+		startLine := rd.line + 1
+		before := len(c.buf)
+		var lines int64
+		var err error
+		c.buf, lines, err = rd.readRecord(c.buf)
+		rd.line += lines
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return nil, err
+		}
+		if len(trimEOL(c.buf[before:])) == 0 { // empty line: not a row
+			c.buf = c.buf[:before]
+			continue
+		}
+		c.starts = append(c.starts, before)
+		c.ends = append(c.ends, before+len(trimEOL(c.buf[before:])))
+		c.lines = append(c.lines, startLine)
+	}
+	if len(c.ends) == 0 {
+		return nil, io.EOF
+	}
+	return c, nil
+}
+
+// chunk is a run of raw records.
+type chunk struct {
+	rd     *Reader
+	buf    []byte
+	starts []int // record i is buf[starts[i]:ends[i]], line terminator excluded
+	ends   []int
+	lines  []int64
+	out    *bytes.Buffer
+}
+
+func (c *chunk) Len() int            { return len(c.ends) }
+func (c *chunk) Line(i int) int64    { return c.lines[i] }
+func (c *chunk) record(i int) []byte { return c.buf[c.starts[i]:c.ends[i]] }
+
+func (c *chunk) Extract(in *enrich.Inputs) {
+	var rec []string
+	var err error
+	want := len(c.rd.header)
+	for i := range c.ends {
+		rec, err = splitRecord(rec, c.record(i), c.rd.delim)
+		if err != nil {
+			in.Err[i] = &enrich.RowError{Err: err}
+			continue
+		}
+		if len(rec) != want {
+			in.Err[i] = &enrich.RowError{Err: fmt.Errorf("%w: the row has %d fields, the header has %d", ErrFieldCount, len(rec), want)}
+			continue
+		}
+		c.rd.x.Row(rec, i, in)
+	}
+}
+
+func (c *chunk) Values(i int) []string {
+	rec, err := splitRecord(nil, c.record(i), c.rd.delim)
+	if err != nil {
+		return []string{string(c.record(i))}
+	}
+	out := make([]string, len(rec))
+	for j, f := range rec {
+		out[j] = string([]byte(f)) // copy out of the chunk's buffer
+	}
+	return out
+}
+
+func (c *chunk) Encode(res *enrich.Results) error {
+	out := c.rd.pool.Get().(*bytes.Buffer)
+	out.Reset()
+	b := out.Bytes()
+	eol := c.rd.eol()
+	d := c.rd.delim
+	for i := range c.ends {
+		if res.Status[i] == enrich.RowRejected {
+			continue
+		}
+		b = append(b, c.record(i)...)
+		b = appendColumns(b, res, i, d)
+		b = append(b, eol...)
+	}
+	*out = *bytes.NewBuffer(b)
+	c.out = out
+	return nil
+}
+
+func (rd *Reader) eol() string {
+	if rd.crlf {
+		return "\r\n"
+	}
+	return "\n"
+}
+
+// appendColumns appends the delimiter and each added column's value of row i.
+func appendColumns(b []byte, res *enrich.Results, i int, d byte) []byte {
+	for _, col := range res.Plan.Columns {
+		b = append(b, d)
+		switch col.Kind {
+		case enrich.KindFloat:
+			if v, ok := res.Float(col.Field, i); ok {
+				b = strconv.AppendFloat(b, v, 'f', col.Decimals, 64)
+			}
+		case enrich.KindCategory:
+			b = append(b, res.Word(col.Field, i)...)
+		case enrich.KindText:
+			b = appendField(b, res.Text(col.Field, i), d)
+		case enrich.KindInstant:
+			if t, ok := res.Instant(col.Field, i); ok {
+				b = t.AppendFormat(b, time.RFC3339)
+			}
+		}
+	}
+	return b
+}
+
+// Writer writes the enriched records of chunks from a Reader.
+type Writer struct {
+	w       *bufio.Writer
+	rd      *Reader
+	started bool
+	plan    *enrich.Plan
+}
+
+// NewWriter writes the header at once: the input's header with the added names.
+func NewWriter(w io.Writer, rd *Reader, plan *enrich.Plan) (*Writer, error) {
+	wr := &Writer{w: bufio.NewWriterSize(w, 1<<20), rd: rd, plan: plan}
+	var b []byte
+	if rd.bom {
+		b = append(b, 0xEF, 0xBB, 0xBF)
+	}
+	b = append(b, rd.headRaw...)
+	for _, name := range plan.Names() {
+		b = append(b, rd.delim)
+		b = appendField(b, name, rd.delim)
+	}
+	b = append(b, rd.eol()...)
+	if _, err := wr.w.Write(b); err != nil {
+		return nil, fmt.Errorf("writing output: %w", err)
+	}
+	return wr, nil
+}
+
+// Write writes a chunk encoded by Encode.
+func (w *Writer) Write(_ context.Context, ch enrich.Chunk) error {
+	c, ok := ch.(*chunk)
+	if !ok || c.out == nil {
+		return fmt.Errorf("csv: chunk %T was not encoded by this package", ch)
+	}
+	_, err := w.w.Write(c.out.Bytes())
+	c.rd.pool.Put(c.out)
+	c.out = nil
+	if err != nil {
+		return fmt.Errorf("writing output: %w", err)
+	}
+	return nil
+}
+
+// Close flushes buffered output.
+func (w *Writer) Close() error {
+	if err := w.w.Flush(); err != nil {
+		return fmt.Errorf("writing output: %w", err)
+	}
+	return nil
+}

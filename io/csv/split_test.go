@@ -1,0 +1,102 @@
+package csv
+
+import (
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+func TestSplitRecord(t *testing.T) {
+	// RFC 4180 §2 rules: fields may be quoted; quotes inside are doubled;
+	// quoted fields may hold delimiters and line breaks.
+	cases := []struct {
+		name string
+		rec  string
+		want []string
+	}{
+		{"plain", "a,b,c", []string{"a", "b", "c"}},
+		{"empty fields", ",,", []string{"", "", ""}},
+		{"trailing empty", "a,", []string{"a", ""}},
+		{"single empty", "", []string{""}},
+		{"quoted", `"a",b`, []string{"a", "b"}},
+		{"quoted delimiter", `"a,b",c`, []string{"a,b", "c"}},
+		{"doubled quote", `"say ""hi""",x`, []string{`say "hi"`, "x"}},
+		{"newline inside", "\"line1\nline2\",x", []string{"line1\nline2", "x"}},
+		{"crlf inside", "\"a\r\nb\"", []string{"a\r\nb"}},
+		{"quoted last empty", `a,""`, []string{"a", ""}},
+		{"quoted then trailing empty", `"a",`, []string{"a", ""}},
+		{"spaces kept", " a , b ", []string{" a ", " b "}},
+		{"utf8", "Zürich,東京", []string{"Zürich", "東京"}},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			got, err := splitRecord(nil, []byte(c.rec), ',')
+			require.NoError(t, err)
+			assert.Equal(t, c.want, got)
+		})
+	}
+}
+
+func TestSplitRecordTab(t *testing.T) {
+	got, err := splitRecord(nil, []byte("a\t\"b\tc\"\td"), '\t')
+	require.NoError(t, err)
+	assert.Equal(t, []string{"a", "b\tc", "d"}, got)
+}
+
+func TestSplitRecordErrors(t *testing.T) {
+	cases := []struct {
+		name string
+		rec  string
+	}{
+		{"bare quote", `a,b"c,d`},
+		{"text after closing quote", `"a"b,c`},
+		{"unclosed", `"abc`},
+		{"space before quote", `a, "b"`},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			_, err := splitRecord(nil, []byte(c.rec), ',')
+			require.ErrorIs(t, err, ErrQuote)
+			assert.Contains(t, err.Error(), "field")
+		})
+	}
+}
+
+func TestAppendFieldQuotesOnlyWhenNeeded(t *testing.T) {
+	cases := map[string]string{
+		"plain":       "plain",
+		"":            "",
+		"a,b":         `"a,b"`,
+		`say "hi"`:    `"say ""hi"""`,
+		"two\nlines":  "\"two\nlines\"",
+		" lead space": `" lead space"`,
+	}
+	for in, want := range cases {
+		assert.Equal(t, want, string(appendField(nil, in, ',')), "field %q", in)
+	}
+}
+
+// FuzzSplitRecord: splitting never panics, and a record rebuilt from the
+// fields with appendField splits back into the same fields.
+func FuzzSplitRecord(f *testing.F) {
+	for _, s := range []string{"a,b,c", `"a,b",c`, `"x""y"`, "\"a\nb\",", `a"b`, ",,", ""} {
+		f.Add([]byte(s))
+	}
+	f.Fuzz(func(t *testing.T, rec []byte) {
+		fields, err := splitRecord(nil, rec, ',')
+		if err != nil {
+			return
+		}
+		var b []byte
+		for i, s := range fields {
+			if i > 0 {
+				b = append(b, ',')
+			}
+			b = appendField(b, s, ',')
+		}
+		again, err := splitRecord(nil, b, ',')
+		require.NoError(t, err, "rebuilt %q from %q", b, rec)
+		require.Equal(t, fields, again)
+	})
+}
