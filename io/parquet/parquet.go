@@ -293,8 +293,8 @@ type chunk struct {
 	out arrow.RecordBatch // output rows, made by Encode
 }
 
-func (c *chunk) Len() int         { return int(c.rec.NumRows()) }
-func (c *chunk) Line(int) int64   { return 0 }
+func (c *chunk) Len() int                  { return int(c.rec.NumRows()) }
+func (c *chunk) Line(int) int64            { return 0 }
 func (c *chunk) Extract(in *enrich.Inputs) { c.rd.ext.extract(c.rec, in) }
 
 // Values renders row i's original values as text (for the rejects file):
