@@ -299,3 +299,34 @@ func TestLagrange(t *testing.T) {
 		}
 	}
 }
+
+// FuzzKernel checks any single row against the reference path: both reject it, or they agree within the
+// batch path's tolerance. Run with go test -fuzz FuzzKernel; the seeds run with the tests.
+func FuzzKernel(f *testing.F) {
+	f.Add(unixOf(2003, 10, 17, 19, 30, 30, 0), 39.742476, -105.1786)
+	f.Add(0.0, 90.0, 180.0)
+	f.Add(MinUnix, -90.0, -180.0)
+	f.Add(MaxUnix, 0.0, 0.0)
+	f.Add(math.NaN(), 0.0, 0.0)
+	f.Add(unixOf(2024, 6, 21, 12, 0, 0, 0), 23.44, 0.0)
+	f.Fuzz(func(t *testing.T, unix, lat, lon float64) {
+		var out Positions
+		NewKernel(Options{}).Positions([]float64{unix}, []float64{lat}, []float64{lon}, &out)
+		ref, err := Position(unix, lat, lon, Options{})
+		if err != nil {
+			if !math.IsNaN(out.Altitude[0]) || !math.IsNaN(out.Azimuth[0]) || out.Phase[0] != PhaseUnknown {
+				t.Fatalf("invalid row (%v) computed: %v %v %v", err, out.Altitude[0], out.Azimuth[0], out.Phase[0])
+			}
+			return
+		}
+		if math.Abs(ref.GeometricAltitude-RefractionCutoff) > 1e-6 && !within(out.Altitude[0], ref.Altitude, 0.0005) {
+			t.Fatalf("altitude %v, reference %v", out.Altitude[0], ref.Altitude)
+		}
+		if ref.GeometricAltitude < 89.5 && math.Abs(wrap180(out.Azimuth[0]-ref.Azimuth)) > 0.0005 {
+			t.Fatalf("azimuth %v, reference %v", out.Azimuth[0], ref.Azimuth)
+		}
+		if want := PhaseOf(ref.GeometricAltitude, ref.HourAngle); out.Phase[0] != want && !nearPhaseEdge(ref) {
+			t.Fatalf("phase %v, reference %v", out.Phase[0], want)
+		}
+	})
+}
