@@ -34,6 +34,8 @@ type Options struct {
 	Select    enrich.Select
 	Delimiter string
 	RS        bool // GeoJSON text sequence output with RFC 8142 record separators
+	// Compression is the Parquet output codec; "" keeps the input's.
+	Compression string
 
 	Add    string // column groups; "" = enrich.DefaultGroups
 	Prefix string
@@ -116,7 +118,7 @@ func Enrich(ctx context.Context, o Options, stdin io.Reader, stdout io.Writer) (
 		}
 	}
 
-	in, err := formats.Open(o.Input, f, stdin, formats.Options{Select: o.Select, Delimiter: o.Delimiter, RS: o.RS})
+	in, err := formats.Open(o.Input, f, stdin, formats.Options{Select: o.Select, Delimiter: o.Delimiter, RS: o.RS, Compression: o.Compression})
 	if err != nil {
 		return res, err
 	}

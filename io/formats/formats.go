@@ -29,7 +29,7 @@ const (
 )
 
 // supported lists the formats this build reads and writes.
-var supported = []Format{CSV, TSV, GeoJSON, GeoJSONSeq}
+var supported = []Format{CSV, TSV, GeoJSON, GeoJSONSeq, Parquet}
 
 // Text reports whether f is a text format (may be gzipped, read from stdin).
 func (f Format) Text() bool { return f != Parquet }
@@ -88,6 +88,8 @@ type Options struct {
 	Delimiter string
 	// RS writes a GeoJSON text sequence with RFC 8142 record separators (--rs).
 	RS bool
+	// Compression is the Parquet output codec (--compression); "" keeps the input's.
+	Compression string
 }
 
 // Input is an opened input file with the writer that matches it.
@@ -131,6 +133,9 @@ func Open(path string, f Format, stdin io.Reader, o Options) (*Input, error) {
 			size = st.Size()
 		}
 		r, in.closer = file, file
+	}
+	if f == Parquet {
+		return openParquet(in, r, path, o)
 	}
 	br := bufio.NewReaderSize(r, 1<<16)
 	if magic, _ := br.Peek(2); len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
