@@ -85,6 +85,9 @@ func Enrich(ctx context.Context, o Options, stdin io.Reader, stdout io.Writer) (
 		return res, fmt.Errorf("%w: %w", enrich.ErrUsage, err)
 	}
 	res.Format = f
+	if _, err := enrich.NewPlan(enrich.PlanOptions{Add: o.Add}); err != nil {
+		return res, err // the groups, checked before the input is opened
+	}
 	if o.To != "" && !strings.EqualFold(o.To, string(f)) {
 		return res, fmt.Errorf("%w: --to %s: converting %s to another format is not supported yet; the output format is the input's (%s)", enrich.ErrUsage, o.To, f, f)
 	}

@@ -18,7 +18,7 @@ import (
 
 // Sentinel errors for coordinate values.
 var (
-	ErrEmpty    = errors.New("empty value")
+	ErrEmpty    = errors.New("empty")
 	ErrNotFloat = errors.New("not a number")
 )
 
@@ -270,11 +270,11 @@ func (x *Extractor) Time(rec []string, i int, lat, lon float64, in *enrich.Input
 func Coordinate(s, what string, limit int) (float64, error) {
 	t := strings.TrimSpace(s)
 	if t == "" {
-		return 0, fmt.Errorf("%w: %s is empty; expected decimal degrees in [%d, %d]", ErrEmpty, what, -limit, limit)
+		return 0, fmt.Errorf("%s is %w; expected decimal degrees in [%d, %d]", what, ErrEmpty, -limit, limit)
 	}
 	v, err := strconv.ParseFloat(t, 64)
 	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
-		return 0, fmt.Errorf("%w: %s %q is not a number; expected decimal degrees in [%d, %d]", ErrNotFloat, what, s, -limit, limit)
+		return 0, fmt.Errorf("%s %q is %w; expected decimal degrees in [%d, %d]", what, s, ErrNotFloat, -limit, limit)
 	}
 	return v, nil
 }

@@ -1,0 +1,127 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+// TestPublishedValuesThroughCLI runs published cases through the whole
+// command and reads the values back from the CSV output.
+func TestPublishedValuesThroughCLI(t *testing.T) {
+	dir := t.TempDir()
+	in := filepath.Join(dir, "spa.csv")
+	// NREL SPA worked example (Reda & Andreas, NREL/TP-560-34302, Table A5.1):
+	// 2003-10-17 12:30:30 at UTC−7, 39.742476 N, 105.1786 W, 1830.14 m,
+	// 820 mbar, 11 °C, ΔT = 67 s. Published topocentric zenith 50.11162°
+	// (altitude 39.88838°) and azimuth 194.34024°.
+	require.NoError(t, os.WriteFile(in, []byte(
+		"site,lat,lon,timestamp\nspa-example,39.742476,-105.1786,2003-10-17T12:30:30-07:00\n"), 0o644))
+	out := filepath.Join(dir, "out.csv")
+	var stdout, stderr bytes.Buffer
+	code := run(context.Background(), []string{"enrich", in, "-o", out,
+		"--pressure", "820", "--temperature", "11", "--elevation", "1830.14", "--delta-t", "67"},
+		nil, &stdout, &stderr)
+	require.Equal(t, 0, code, stderr.String())
+	rows := readCSV(t, out)
+	require.Len(t, rows, 2)
+	get := func(name string) string { return rows[1][indexOf(t, rows[0], name)] }
+	alt, err := strconv.ParseFloat(get("sun_altitude_deg"), 64)
+	require.NoError(t, err)
+	az, err := strconv.ParseFloat(get("sun_azimuth_deg"), 64)
+	require.NoError(t, err)
+	// Output has 4 decimals; the batch path is within 0.0005° of the reference.
+	assert.InDelta(t, 90-50.11162, alt, 0.0006, "altitude (SPA Table A5.1)")
+	assert.InDelta(t, 194.34024, az, 0.0006, "azimuth (SPA Table A5.1)")
+	// Common practice: mid-afternoon sun at 40° altitude is day / daylight.
+	assert.Equal(t, "day", get("sun_phase"))
+	assert.Equal(t, "daylight", get("sun_light_condition"))
+}
+
+func TestReportJSON(t *testing.T) {
+	dir := t.TempDir()
+	t.Chdir(dir)
+	require.NoError(t, os.WriteFile("in.csv", []byte("id,lat,lon,timestamp\n"+
+		"1,51.5,-0.12,2024-06-21T12:00:00Z\n"+
+		"2,51.5,-0.12,2024-06-21T23:00:00Z\n"+
+		"3,99,0,2024-06-21T12:00:00Z\n"), 0o644))
+	var stdout, stderr bytes.Buffer
+	code := run(context.Background(), []string{"enrich", "in.csv", "--on-bad-row", "skip", "--report", "run.json", "-o", "out.csv"}, nil, &stdout, &stderr)
+	require.Equal(t, 1, code, stderr.String())
+	b, err := os.ReadFile("run.json")
+	require.NoError(t, err)
+	var rep struct {
+		Version    string           `json:"version"`
+		RowsRead   int64            `json:"rows_read"`
+		RowsOut    int64            `json:"rows_written"`
+		Rejected   int64            `json:"rows_rejected"`
+		Reasons    map[string]int64 `json:"bad_rows_by_reason"`
+		Phases     map[string]int64 `json:"rows_by_sun_phase"`
+		Conditions map[string]int64 `json:"rows_by_light_condition"`
+		Options    struct {
+			OnBadRow string `json:"on_bad_row"`
+			Rejects  string `json:"rejects"`
+		} `json:"options"`
+	}
+	require.NoError(t, json.Unmarshal(b, &rep))
+	assert.Equal(t, int64(3), rep.RowsRead)
+	assert.Equal(t, int64(2), rep.RowsOut)
+	assert.Equal(t, int64(1), rep.Rejected)
+	assert.Equal(t, rep.RowsRead, rep.RowsOut+rep.Rejected)
+	require.Len(t, rep.Reasons, 1)
+	for k, v := range rep.Reasons {
+		assert.Contains(t, k, "lat")
+		assert.Equal(t, int64(1), v)
+	}
+	// London at 12:00 UTC on the June solstice is day; at 23:00 UTC, an hour
+	// before solar midnight, the sun is about 14° below the horizon: between
+	// −12° and −18°, astronomical twilight (common practice: no astronomical
+	// night in June at 51.5° N, the sun stays above −18°).
+	assert.Equal(t, map[string]int64{"day": 1, "evening_astronomical": 1}, rep.Phases)
+	assert.Equal(t, map[string]int64{"daylight": 1, "dark": 1}, rep.Conditions)
+	assert.Equal(t, "skip", rep.Options.OnBadRow)
+	assert.Equal(t, "out.rejects.csv", rep.Options.Rejects)
+	assert.NotEmpty(t, rep.Version)
+}
+
+func TestHelpHasExamples(t *testing.T) {
+	for _, cmd := range []string{"enrich", "inspect"} {
+		var stdout, stderr bytes.Buffer
+		code := run(context.Background(), []string{cmd, "--help"}, nil, &stdout, &stderr)
+		assert.Equal(t, 0, code)
+		assert.Contains(t, stderr.String(), "heliotag "+cmd+" testdata/demo/", "worked example in %s --help", cmd)
+	}
+}
+
+func TestUsageErrors(t *testing.T) {
+	cases := []struct {
+		args []string
+		msg  string
+	}{
+		{[]string{}, "Usage"},
+		{[]string{"frobnicate"}, `unknown command "frobnicate"`},
+		{[]string{"enrich"}, "missing INPUT"},
+		{[]string{"enrich", "a.csv", "b.csv"}, "one INPUT expected"},
+		{[]string{"enrich", "a.csv", "--on-bad-row", "ignore"}, "valid: fail, skip, keep"},
+		{[]string{"enrich", "a.xyz"}, "give --from"},
+		{[]string{"enrich", "-", "--from", "csv", "--on-bad-row", "skip"}, "needs --rejects"},
+		{[]string{"enrich", "a.csv", "--add", "sunshine"}, `unknown column group "sunshine"`},
+		{[]string{"enrich", "a.csv", "--progress", "sometimes"}, "valid: auto, never, always"},
+	}
+	for _, c := range cases {
+		t.Run(strings.Join(c.args, " "), func(t *testing.T) {
+			var stdout, stderr bytes.Buffer
+			code := run(context.Background(), c.args, strings.NewReader(""), &stdout, &stderr)
+			assert.Equal(t, 2, code)
+			assert.Contains(t, stderr.String(), c.msg)
+		})
+	}
+}
