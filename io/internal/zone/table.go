@@ -2,6 +2,7 @@ package zone
 
 import (
 	"math"
+	"slices"
 	"time"
 )
 
@@ -55,10 +56,7 @@ func buildTable(loc *time.Location) *table {
 	tab := &table{starts: []int64{math.MinInt64}, segs: []seg{{off: int32(prev), kind: kindUnique}}}
 	broken := false
 	for {
-		_, end := t.ZoneBounds()
-		if !end.IsZero() && !end.After(t) {
-			end = stepOver(t)
-		}
+		end := periodEnd(t)
 		if end.IsZero() {
 			if !broken {
 				tab.hi = math.MaxInt64
@@ -144,61 +142,90 @@ func (t *table) lookup(loc *time.Location, w int64) result {
 	return r
 }
 
-// stepOver returns the second after t. ZoneBounds of an instant at a year boundary in a zone's
-// rule-based future (past the transitions its data lists) can report a period ending at that very
-// instant; the offset does not change there, and the next second lies in the following period.
-func stepOver(t time.Time) time.Time {
-	return time.Unix(t.Unix()+1, 0).In(t.Location())
+// periodEnd returns the end of the period of constant offset rules that holds t (the zero Time when
+// it has none), as ZoneBounds does. Where ZoneBounds reports an end at or before t (Go 1.26 does so in
+// the rule-based years past a zone's listed transitions, on the last day of leap years, where it puts
+// the year's end a day early), the end is found with Zone alone: the first offset change in the next
+// three days (hourly probes, then bisection to the second), or the first instant where ZoneBounds
+// answers sensibly again.
+func periodEnd(t time.Time) time.Time {
+	_, end := t.ZoneBounds()
+	if end.IsZero() || end.After(t) {
+		return end
+	}
+	loc := t.Location()
+	_, off := t.Zone()
+	sec := t.Unix()
+	for p := sec + 3600; p <= sec+3*86400; p += 3600 {
+		tp := time.Unix(p, 0).In(loc)
+		if _, o := tp.Zone(); o != off {
+			lo, hi := p-3600, p // offset off at lo, another at hi
+			for hi-lo > 1 {
+				mid := lo + (hi-lo)/2
+				if offsetAt(loc, mid) == off {
+					lo = mid
+				} else {
+					hi = mid
+				}
+			}
+			return time.Unix(hi, 0).In(loc)
+		}
+		if _, e := tp.ZoneBounds(); e.IsZero() || e.After(tp) {
+			return tp
+		}
+	}
+	return time.Unix(sec+3*86400, 0).In(loc)
 }
 
 // searchReach bounds how far in time search looks for rules around a wall (real offsets stay well
 // within ±26 h).
 const searchReach = 30 * 3600
 
-// search resolves wall w by scanning the zone's periods (ZoneBounds) that overlap the instants
-// [w-searchReach, w+searchReach]: every period whose offset maps w inside itself yields an instant.
+// search resolves wall w directly: it collects the offsets in effect over the instants
+// [w-searchReach, w+searchReach] and keeps each offset o whose instant w-o really has offset o. No such
+// offset means a gap, located by the change that skips over w.
 func search(loc *time.Location, w int64) result {
 	t := time.Unix(w-searchReach, 0).In(loc)
-	var r, gap result
+	var offs [8]int
 	n := 0
-	havePrev := false
-	prev := 0
+	_, prev := t.Zone()
+	offs[n] = prev
+	n++
+	var gap result
 	for {
-		_, off := t.Zone()
-		start, end := t.ZoneBounds()
-		if !end.IsZero() && !end.After(t) {
-			t = stepOver(t)
-			continue
-		}
-		c := w - int64(off)
-		if (start.IsZero() || c >= start.Unix()) && (end.IsZero() || c < end.Unix()) {
-			switch n {
-			case 0:
-				r.off = off
-			case 1:
-				r.off2 = off
-			}
-			n++
-		}
-		if havePrev && off > prev && !start.IsZero() {
-			if T := start.Unix(); T+int64(prev) <= w && w < T+int64(off) {
-				gap = result{kind: kindGap, off: prev, off2: off, from: T + int64(prev), to: T + int64(off)}
-			}
-		}
+		end := periodEnd(t)
 		if end.IsZero() || end.Unix() > w+searchReach {
 			break
 		}
-		prev, havePrev = off, true
 		t = end
+		_, off := t.Zone()
+		if off == prev {
+			continue
+		}
+		if T := end.Unix(); off > prev && T+int64(prev) <= w && w < T+int64(off) {
+			gap = result{kind: kindGap, off: prev, off2: off, from: T + int64(prev), to: T + int64(off)}
+		}
+		if n < len(offs) && !slices.Contains(offs[:n], off) {
+			offs[n] = off
+			n++
+		}
+		prev = off
 	}
-	switch n {
+	var cands [8]int64
+	k := 0
+	for _, o := range offs[:n] {
+		if c := w - int64(o); offsetAt(loc, c) == o {
+			cands[k] = c
+			k++
+		}
+	}
+	slices.Sort(cands[:k])
+	switch k {
 	case 0:
-		r = gap
-		r.kind = kindGap
+		gap.kind = kindGap
+		return gap
 	case 1:
-		r.kind = kindUnique
-	default:
-		r.kind = kindOverlap // periods come in time order, so r.off gives the earlier instant
+		return result{kind: kindUnique, off: int(w - cands[0])}
 	}
-	return r
+	return result{kind: kindOverlap, off: int(w - cands[0]), off2: int(w - cands[1])}
 }
