@@ -21,6 +21,7 @@ import (
 	"fmt"
 	"io"
 	"strconv"
+	"strings"
 	"sync"
 	"time"
 
@@ -257,7 +258,11 @@ func (c *chunk) Extract(in *enrich.Inputs) {
 			continue
 		}
 		if len(rec) != want {
-			in.Err[i] = &enrich.RowError{Err: fmt.Errorf("%w: the row has %d fields, the header has %d", ErrFieldCount, len(rec), want)}
+			msg := "missing fields are written empty"
+			if len(rec) > want {
+				msg = fmt.Sprintf("fields %d to %d are kept joined into the last column", want, len(rec))
+			}
+			in.Err[i] = &enrich.RowError{Err: fmt.Errorf("%w: the row has %d fields, the header has %d (under --on-bad-row keep, %s)", ErrFieldCount, len(rec), want, msg)}
 			continue
 		}
 		c.rd.x.Row(rec, i, in)
@@ -286,13 +291,43 @@ func (c *chunk) Encode(res *enrich.Results) error {
 		if res.Status[i] == enrich.RowRejected {
 			continue
 		}
-		b = append(b, c.record(i)...)
+		if res.Status[i] == enrich.RowKept && errors.Is(res.Err[i], ErrFieldCount) {
+			b = c.appendRealigned(b, i)
+		} else {
+			b = append(b, c.record(i)...)
+		}
 		b = appendColumns(b, res, i, d)
 		b = append(b, eol...)
 	}
 	*out = *bytes.NewBuffer(b)
 	c.out = out
 	return nil
+}
+
+// appendRealigned writes a record whose field count differs from the
+// header's (kept under the keep policy) with exactly the header's number of
+// fields, so that the added columns line up: a short record is padded with
+// empty fields; a long one has its surplus fields joined, with the
+// delimiter, into its last column. Nothing is dropped.
+func (c *chunk) appendRealigned(b []byte, i int) []byte {
+	rec, err := splitRecord(nil, c.record(i), c.rd.delim)
+	if err != nil {
+		return append(b, c.record(i)...)
+	}
+	want := len(c.rd.header)
+	if len(rec) > want {
+		last := strings.Join(rec[want-1:], string(c.rd.delim))
+		rec = append(rec[:want-1], last)
+	}
+	for j := 0; j < want; j++ {
+		if j > 0 {
+			b = append(b, c.rd.delim)
+		}
+		if j < len(rec) {
+			b = appendField(b, rec[j], c.rd.delim)
+		}
+	}
+	return b
 }
 
 func (rd *Reader) eol() string {
