@@ -70,7 +70,9 @@ func TestTimeColumns(t *testing.T) {
 	chicago := mustZone(t, "America/Chicago")
 	berlin := mustZone(t, "Europe/Berlin")
 	ny := mustZone(t, "America/New_York")
-	utc := func(y int, m time.Month, d, h, mi, s, ns int) time.Time { return time.Date(y, m, d, h, mi, s, ns, time.UTC) }
+	utc := func(y int, m time.Month, d, h, mi, s, ns int) time.Time {
+		return time.Date(y, m, d, h, mi, s, ns, time.UTC)
+	}
 	type want struct {
 		t    time.Time
 		zone string // "" for nil (mean solar time)

@@ -295,4 +295,3 @@ func TestInstantColumnBuilder(t *testing.T) {
 		t.Errorf("instant column %v: want 2 rows (the rejected one left out), null where Instant has no value", a)
 	}
 }
-
