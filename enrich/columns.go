@@ -139,7 +139,9 @@ type PlanOptions struct {
 	Input []string
 }
 
-// Plan is the ordered list of added columns.
+// Plan is the ordered list of added columns. The plan for --add none has no
+// columns at all: rows are copied unchanged (a passthrough, which measures
+// what reading and writing alone cost).
 type Plan struct {
 	Columns []Column
 	groups  []Group
@@ -174,6 +176,9 @@ func NewPlan(o PlanOptions) (*Plan, error) {
 		add = DefaultGroups
 	}
 	var groups []Group
+	if add == "none" {
+		return &Plan{}, nil
+	}
 	if add == "all" {
 		groups = slices.Clone(supportedGroups)
 	} else {

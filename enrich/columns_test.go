@@ -19,6 +19,7 @@ func TestNewPlan(t *testing.T) {
 		{"all", PlanOptions{Add: "all"}, []string{"sun_altitude_deg", "sun_azimuth_deg", "sun_phase", "sun_light_condition"}},
 		{"prefix", PlanOptions{Add: "phase", Prefix: "x_"}, []string{"x_sun_phase", "x_sun_light_condition"}},
 		{"note and error", PlanOptions{Add: "phase", TimeNote: true, ErrorColumn: true}, []string{"sun_phase", "sun_light_condition", "sun_time_note", "sun_error"}},
+		{"none is a passthrough", PlanOptions{Add: "none", TimeNote: true, ErrorColumn: true}, []string{}},
 		{"prefix avoids a clash", PlanOptions{Add: "phase", Prefix: "h_", Input: []string{"sun_phase"}}, []string{"h_sun_phase", "h_sun_light_condition"}},
 	}
 	for _, c := range cases {

@@ -138,8 +138,19 @@ func Run(ctx context.Context, src Source, sink Sink, o Options) (Summary, error)
 		return b, nil
 	}
 
+	passthrough := len(o.Plan.Columns) == 0
 	work := func(ctx context.Context, _ int, b batch) (batch, error) {
 		n := b.chunk.Len()
+		if passthrough {
+			res := results.Get().(*Results)
+			res.Plan = o.Plan
+			res.reset(n)
+			if err := b.chunk.Encode(res); err != nil {
+				return b, err
+			}
+			b.res = res
+			return b, nil
+		}
 		in := inputs.Get().(*Inputs)
 		defer inputs.Put(in)
 		in.Reset(n)

@@ -26,7 +26,8 @@ original column is kept as it was; rows keep their order. The output is written
 to a temporary file next to the target and renamed only when the run succeeds.
 
 Column groups (--add): position (sun_altitude_deg, sun_azimuth_deg) and phase
-(sun_phase, sun_light_condition). Default: position,phase.
+(sun_phase, sun_light_condition). Default: position,phase. --add none copies
+the rows unchanged (a passthrough: what reading and writing alone cost).
 
 Times without an offset need a zone: --tz ZONE, --tz-column COL or --tz auto.
 

@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"strconv"
 
 	"github.com/paulmach/orb"
 	ogeojson "github.com/paulmach/orb/geojson"
@@ -23,10 +24,24 @@ var positionDepth = map[string]int{
 
 // location returns the representative point of a geometry value (JSON
 // text, not null). Errors wrap ErrGeometry.
+//
+// Geometries are decoded with orb's GeoJSON Geometry type, except Points:
+// their two numbers are read here directly (the same values orb reads, as
+// TestPointFastPath and FuzzPoint check), since decoding through
+// encoding/json's reflection would cost more than the rest of the row.
 func location(raw []byte) (orb.Point, error) {
-	if err := checkGeometry(raw, 0); err != nil {
+	typ, coords, err := checkGeometry(raw, 0)
+	if err != nil {
 		return orb.Point{}, err
 	}
+	if typ == "Point" {
+		return pointOf(coords)
+	}
+	return orbLocation(raw)
+}
+
+// orbLocation decodes a geometry with orb and takes its representative point.
+func orbLocation(raw []byte) (orb.Point, error) {
 	var g ogeojson.Geometry
 	if err := json.Unmarshal(raw, &g); err != nil {
 		return orb.Point{}, fmt.Errorf("%w: %w", ErrGeometry, err)
@@ -38,19 +53,42 @@ func location(raw []byte) (orb.Point, error) {
 	return p, nil
 }
 
+// pointOf reads the first two numbers of a Point's coordinates, which
+// checkGeometry has found to be an array of at least two numbers.
+func pointOf(coords []byte) (orb.Point, error) {
+	var p orb.Point
+	i := 1
+	for k := range 2 {
+		i = skipSpace(coords, i)
+		if i < len(coords) && coords[i] == ',' {
+			i = skipSpace(coords, i+1)
+		}
+		j := skipValue(coords, i)
+		v, err := strconv.ParseFloat(string(coords[i:j]), 64)
+		if err != nil {
+			// Only a number too large for a float64 gets here (1e400).
+			return orb.Point{}, fmt.Errorf("%w: Point coordinate %s is out of the range of numbers", ErrGeometry, coords[i:j])
+		}
+		p[k] = v
+		i = j
+	}
+	return p, nil
+}
+
 // checkGeometry checks the shape of a geometry object before orb reads it:
 // orb reads a missing position as 0, 0, which would put the row at the
 // wrong place instead of rejecting it.
-func checkGeometry(b []byte, depth int) error {
+// It returns the geometry's type and, for types other than
+// GeometryCollection, its coordinates.
+func checkGeometry(b []byte, depth int) (typ string, coords []byte, err error) {
 	i := skipSpace(b, 0)
 	if i >= len(b) {
-		return fmt.Errorf("%w: geometry is empty text", ErrGeometry)
+		return "", nil, fmt.Errorf("%w: geometry is empty text", ErrGeometry)
 	}
 	if b[i] != '{' {
-		return fmt.Errorf("%w: geometry is %s; expected an object such as {\"type\": \"Point\", \"coordinates\": [lon, lat]}", ErrGeometry, kindName(b[i]))
+		return "", nil, fmt.Errorf("%w: geometry is %s; expected an object such as {\"type\": \"Point\", \"coordinates\": [lon, lat]}", ErrGeometry, kindName(b[i]))
 	}
-	var typ string
-	var coords, geoms []byte
+	var geoms []byte
 	hasType := false
 	for p := i + 1; ; {
 		m, end, ok := nextMember(b, p)
@@ -71,14 +109,14 @@ func checkGeometry(b []byte, depth int) error {
 		}
 	}
 	if !hasType {
-		return fmt.Errorf("%w: geometry has no \"type\"", ErrGeometry)
+		return "", nil, fmt.Errorf("%w: geometry has no \"type\"", ErrGeometry)
 	}
 	if typ == "GeometryCollection" {
 		if depth >= maxCollectionDepth {
-			return fmt.Errorf("%w: GeometryCollections nested more than %d deep", ErrGeometry, maxCollectionDepth)
+			return "", nil, fmt.Errorf("%w: GeometryCollections nested more than %d deep", ErrGeometry, maxCollectionDepth)
 		}
 		if len(geoms) == 0 || geoms[0] != '[' {
-			return fmt.Errorf("%w: GeometryCollection needs a \"geometries\" array", ErrGeometry)
+			return "", nil, fmt.Errorf("%w: GeometryCollection needs a \"geometries\" array", ErrGeometry)
 		}
 		for p := 1; ; {
 			p = skipSpace(geoms, p)
@@ -86,29 +124,29 @@ func checkGeometry(b []byte, depth int) error {
 				p = skipSpace(geoms, p+1)
 			}
 			if p >= len(geoms) || geoms[p] == ']' {
-				return nil
+				return typ, nil, nil
 			}
 			end := skipValue(geoms, p)
 			if geoms[p] == 'n' {
-				return fmt.Errorf("%w: a member of a GeometryCollection is null", ErrGeometry)
+				return "", nil, fmt.Errorf("%w: a member of a GeometryCollection is null", ErrGeometry)
 			}
-			if err := checkGeometry(geoms[p:end], depth+1); err != nil {
-				return err
+			if _, _, err := checkGeometry(geoms[p:end], depth+1); err != nil {
+				return "", nil, err
 			}
 			p = end
 		}
 	}
 	want, known := positionDepth[typ]
 	if !known {
-		return fmt.Errorf("%w: unknown geometry type %q; RFC 7946 types are Point, MultiPoint, LineString, MultiLineString, Polygon, MultiPolygon, GeometryCollection", ErrGeometry, typ)
+		return "", nil, fmt.Errorf("%w: unknown geometry type %q; RFC 7946 types are Point, MultiPoint, LineString, MultiLineString, Polygon, MultiPolygon, GeometryCollection", ErrGeometry, typ)
 	}
 	if len(coords) == 0 || coords[0] != '[' {
-		return fmt.Errorf("%w: %s needs a \"coordinates\" array", ErrGeometry, typ)
+		return "", nil, fmt.Errorf("%w: %s needs a \"coordinates\" array", ErrGeometry, typ)
 	}
 	if err := checkCoordinates(coords, want); err != nil {
-		return fmt.Errorf("%w: %s coordinates: %w", ErrGeometry, typ, err)
+		return "", nil, fmt.Errorf("%w: %s coordinates: %w", ErrGeometry, typ, err)
 	}
-	return nil
+	return typ, coords, nil
 }
 
 var (

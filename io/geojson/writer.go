@@ -74,9 +74,11 @@ func (w *Writer) Write(_ context.Context, ch enrich.Chunk) error {
 }
 
 // Close ends a collection (the features array, then the members that came
-// after it in the input) and flushes.
+// after it in the input) and flushes. When the input was not read to its end
+// (the run failed) the collection is left unclosed, so that output that went
+// to a stream is not mistaken for a whole document.
 func (w *Writer) Close() error {
-	if !w.rd.seq {
+	if !w.rd.seq && w.rd.end {
 		var b []byte
 		if w.written > 0 {
 			b = append(b, '\n')

@@ -42,6 +42,7 @@ type Extractor struct {
 	parser                        *stamp.Parser
 	zones                         *zone.Resolver
 	sel                           enrich.Select
+	timeCol                       string // the time column's name, or "date+time" for two columns
 	choices                       []enrich.Choice
 }
 
@@ -110,6 +111,11 @@ func newExtractor(header []string, sel enrich.Select, location bool) (*Extractor
 		if x.tz, err = x.pick("time zone", "--tz-column", sel.TZColumn, nil, true); err != nil {
 			return nil, err
 		}
+	}
+	if x.ts >= 0 {
+		x.timeCol = x.names[x.ts]
+	} else if x.date >= 0 {
+		x.timeCol = x.names[x.date] + "+" + x.names[x.clock]
 	}
 	if x.parser, err = stamp.NewParser(stamp.Options{Layout: sel.TimeFormat, Epoch: sel.Epoch}); err != nil {
 		return nil, fmt.Errorf("%w: %w", enrich.ErrUsage, err)
@@ -236,12 +242,10 @@ func (x *Extractor) Row(rec []string, i int, in *enrich.Inputs) {
 func (x *Extractor) Time(rec []string, i int, lat, lon float64, in *enrich.Inputs) {
 	var st stamp.Stamp
 	var err error
-	col := ""
+	col := x.timeCol
 	if x.ts >= 0 {
-		col = x.names[x.ts]
 		st, err = x.parser.Parse(rec[x.ts])
 	} else {
-		col = x.names[x.date] + "+" + x.names[x.clock]
 		st, err = x.parser.ParseDateTime(rec[x.date], rec[x.clock])
 	}
 	if err != nil {
