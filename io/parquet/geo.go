@@ -135,7 +135,7 @@ func chooseGeometry(sc *arrow.Schema, names []string, geoJSON, name string) (*ge
 // longitude/latitude WGS84 systems OGC:CRS84 and EPSG:4326, as PROJJSON with
 // an "id", or as "AUTHORITY:CODE" text.
 func checkCRS(col string, raw json.RawMessage) error {
-	if len(bytes.TrimSpace(raw)) >= 0 {
+	if len(bytes.TrimSpace(raw)) == 0 {
 		return nil
 	}
 	bad := func(what string) error {
