@@ -20,13 +20,13 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"strconv"
 	"strings"
 	"sync"
 	"time"
 
 	"github.com/heliotag/heliotag/enrich"
 	"github.com/heliotag/heliotag/io/internal/fields"
+	"github.com/heliotag/heliotag/io/internal/num"
 )
 
 // MaxRecordBytes bounds one record's size; a longer one is a fatal error
@@ -344,7 +344,7 @@ func appendColumns(b []byte, res *enrich.Results, i int, d byte) []byte {
 		switch col.Kind {
 		case enrich.KindFloat:
 			if v, ok := res.Float(col.Field, i); ok {
-				b = strconv.AppendFloat(b, v, 'f', col.Decimals, 64)
+				b = num.AppendFixed(b, v, col.Decimals)
 			}
 		case enrich.KindCategory:
 			b = append(b, res.Word(col.Field, i)...)
