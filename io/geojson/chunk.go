@@ -116,6 +116,7 @@ func (c *chunk) Extract(in *enrich.Inputs) {
 	}
 	c.info = c.info[:n]
 	rec := make([]string, len(rd.cols))
+	var clash []byte // an added column's quoted name found among the properties
 	for i := range n {
 		f := c.feature(i)
 		if rd.seq && !json.Valid(f) {
@@ -134,15 +135,25 @@ func (c *chunk) Extract(in *enrich.Inputs) {
 					break
 				}
 				q, inf.pIns = end, end
+				key := f[m.key0:m.key1]
 				for _, nd := range rd.need {
-					if keyIs(f[m.key0:m.key1], nd.name) {
+					if keyIs(key, nd.name) {
 						rec[nd.idx] = valueText(f[m.val0:m.val1])
+					}
+				}
+				for _, k := range rd.added {
+					if len(k) == len(key) && string(k) == string(key) && clash == nil {
+						clash = k
 					}
 				}
 			}
 		}
 		c.info[i] = inf
-		if err := c.locate(f, &inf, i, in); err != nil {
+		if clash != nil {
+			in.Err[i] = &enrich.RowError{Column: unquote(clash), Err: fmt.Errorf("%w: %w: the feature already has a property %s; choose a prefix for the added columns with --prefix",
+				enrich.ErrFatal, ErrPropertyExists, clash)}
+			clash = nil
+		} else if err := c.locate(f, &inf, i, in); err != nil {
 			in.Err[i] = err
 		} else {
 			rd.x.Time(rec, i, in.Lat[i], in.Lon[i], in)
@@ -251,11 +262,6 @@ func (c *chunk) Encode(res *enrich.Results) error {
 		}
 		f := c.feature(i)
 		inf := c.info[i]
-		if inf.props == propsObject {
-			if err := c.checkNames(i, f[inf.p0:inf.p1], keys); err != nil {
-				return err
-			}
-		}
 		if c.rd.seq {
 			if c.rd.outRS {
 				b = append(b, 0x1E)
@@ -290,28 +296,6 @@ func (c *chunk) Encode(res *enrich.Results) error {
 		}
 	}
 	c.out = b
-	return nil
-}
-
-// checkNames refuses a feature whose properties already hold an added name.
-func (c *chunk) checkNames(i int, props []byte, keys [][]byte) error {
-	for j, k := range keys {
-		if !bytes.Contains(props, k) {
-			continue
-		}
-		for q := 1; ; {
-			m, end, ok := nextMember(props, q)
-			if !ok {
-				break
-			}
-			q = end
-			if bytes.Equal(props[m.key0:m.key1], k) {
-				line, off := c.lines[i], c.offs[i]
-				return fmt.Errorf("%w: feature %d (line %d, byte offset %d) already has a property %s; choose a prefix for the added columns with --prefix",
-					ErrPropertyExists, c.first+int64(i)+1, line, off, keys[j])
-			}
-		}
-	}
 	return nil
 }
 

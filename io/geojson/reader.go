@@ -45,11 +45,12 @@ type Reader struct {
 
 	// text sequence
 	br        *bufio.Reader
-	rs        bool  // records are split by RS rather than by line ends
-	outRS     bool  // the writer frames records with RS (set by NewWriter)
-	off       int64 // bytes consumed
-	line      int64 // line ends consumed
-	lineStart int64 // offset where the current line starts
+	rs        bool     // records are split by RS rather than by line ends
+	outRS     bool     // the writer frames records with RS (set by NewWriter)
+	added     [][]byte // the added columns' names as JSON strings (set by NewWriter)
+	off       int64    // bytes consumed
+	line      int64    // line ends consumed
+	lineStart int64    // offset where the current line starts
 	eof       bool
 }
 

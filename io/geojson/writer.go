@@ -28,6 +28,10 @@ func NewWriter(w io.Writer, rd *Reader, plan *enrich.Plan, o WriterOptions) (*Wr
 	// Chunks encode themselves on the workers and know only their reader:
 	// the output framing goes there (the input's framing does not decide it).
 	rd.outRS = o.RS
+	rd.added = rd.added[:0]
+	for _, name := range plan.Names() {
+		rd.added = append(rd.added, appendString(nil, name))
+	}
 	wr := &Writer{w: bufio.NewWriterSize(w, 1<<20), rd: rd}
 	if !rd.seq {
 		b := []byte{'{'}
