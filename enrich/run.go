@@ -162,7 +162,8 @@ func Run(ctx context.Context, src Source, sink Sink, o Options) (Summary, error)
 		copy(res.Zone, in.Zone)
 		copy(res.Note, in.Note)
 
-		unix := make([]float64, n)
+		in.unix = resize(in.unix, n)
+		unix := in.unix
 		var last float64
 		for i := range n {
 			if in.Err[i] == nil {

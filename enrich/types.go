@@ -72,6 +72,8 @@ type Inputs struct {
 	// Err is nil, or the row's problem: a *RowError naming the column.
 	// A row with an error is not computed.
 	Err []error
+
+	unix []float64 // scratch: Time as Unix seconds
 }
 
 // Reset sizes every slice to n rows, reusing memory, and clears them.

@@ -58,6 +58,10 @@ func Inspect(ctx context.Context, o Options, n int, stdin io.Reader) (*Inspectio
 		chunk.Extract(&inputs)
 		for i := range chunk.Len() {
 			s := Sample{Row: int64(i + 1), Err: inputs.Err[i], Note: inputs.Note[i]}
+			var re *enrich.RowError
+			if errors.As(s.Err, &re) {
+				re.Row, re.Line = s.Row, chunk.Line(i)
+			}
 			vals := chunk.Values(i)
 			for _, c := range ins.Choices {
 				if c.Index < len(vals) {
