@@ -27,9 +27,15 @@ import (
 //     eight points 0.02° around (and the point itself again), first answer wins.
 //
 // Step 1 depends only on which tile of the finest zoom (idxZoom) holds the point, since the tile at
-// every coarser zoom is that tile's ancestor. So its outcome is cached per finest tile, exactly: every
-// later point in the same tile gets the same answer without any geometry. Points near zone borders
-// (in no preindexed tile) are cached by their exact coordinates.
+// every coarser zoom is that tile's ancestor. That makes two exact caches possible:
+//
+//   - a grid of 1/64° × 1/64° cells: a cell wholly inside one preindexed tile (checked once, with a
+//     margin of 1e-9° around the cell, far wider than the rounding of the tile arithmetic) answers for
+//     every point in it with two multiplications and no trigonometry;
+//   - the finest tile: a tile inside a preindexed tile answers for every point in it.
+//
+// Points in no preindexed tile (near zone borders) are looked up one by one and cached by their exact
+// coordinates.
 //
 // Open ocean resolves to the nautical zones Etc/GMT±N (note the POSIX sign: Etc/GMT+10 is UTC−10),
 // 15° wide; the poles resolve to whatever the boundary data has there (Etc/GMT at the North Pole,
@@ -131,7 +137,15 @@ func (f *finder) lookup(lon, lat float64) string {
 // Cache sizes (slots of a direct-mapped cache; a new entry replaces whatever held its slot).
 const (
 	exactSlots = 1 << 12
-	cellSlots  = 1 << 12
+	gridSlots  = 1 << 12
+	tileSlots  = 1 << 12
+)
+
+// gridPerDegree is the number of grid cells per degree of latitude or longitude; gridMargin widens
+// a cell on every side when checking that it lies inside one tile.
+const (
+	gridPerDegree = 64
+	gridMargin    = 1e-9
 )
 
 type exactEntry struct {
@@ -140,7 +154,12 @@ type exactEntry struct {
 	err      error
 }
 
-type cellEntry struct {
+type gridEntry struct {
+	ilat, ilon int32
+	zi         *zoneInfo // nil: the cell is not inside one preindexed tile
+}
+
+type tileEntry struct {
 	tile maptile.Tile
 	zi   *zoneInfo // nil: the tile is in no preindexed tile, so its points are looked up one by one
 }
@@ -148,7 +167,8 @@ type cellEntry struct {
 // autoCache holds a Resolver's Auto caches; slots are replaced atomically, so readers never lock.
 type autoCache struct {
 	exact [exactSlots]atomic.Pointer[exactEntry]
-	cells [cellSlots]atomic.Pointer[cellEntry]
+	grid  [gridSlots]atomic.Pointer[gridEntry]
+	tiles [tileSlots]atomic.Pointer[tileEntry]
 }
 
 func newAutoCache() *autoCache { return &autoCache{} }
@@ -158,11 +178,44 @@ func mix(a, b uint64) uint64 {
 	return h ^ h>>29 ^ h>>47
 }
 
+// cellZone returns the name of the preindexed tile holding the whole grid cell (ilat, ilon), or "".
+func (f *finder) cellZone(ilat, ilon int32) string {
+	lat0, lon0 := float64(ilat)/gridPerDegree-gridMargin, float64(ilon)/gridPerDegree-gridMargin
+	lat1, lon1 := float64(ilat+1)/gridPerDegree+gridMargin, float64(ilon+1)/gridPerDegree+gridMargin
+	a, b := f.tileOf(lon0, lat0), f.tileOf(lon1, lat1) // opposite corners: every point lies between
+	for z := f.aggZoom; z <= f.idxZoom; z++ {
+		shift := uint32(f.idxZoom - z)
+		ta := maptile.Tile{X: a.X >> shift, Y: a.Y >> shift, Z: maptile.Zoom(z)}
+		if ta.X != b.X>>shift || ta.Y != b.Y>>shift {
+			return "" // the cell spans tiles at this zoom, and at every finer one
+		}
+		if name, ok := f.tiles[ta]; ok {
+			return name
+		}
+	}
+	return ""
+}
+
 // at returns the zone at lat, lon for Mode Auto.
 func (r *Resolver) at(lat, lon float64) (*zoneInfo, error) {
 	if !validCoords(lat, lon) {
 		return nil, &zoneError{"no time zone for coordinates lat " + strconv.FormatFloat(lat, 'g', -1, 64) + ", lon " +
 			strconv.FormatFloat(lon, 'g', -1, 64) + ": expected latitude in [-90, 90] and longitude in [-180, 180]", ErrNoZoneFound}
+	}
+	ilat, ilon := int32(math.Floor(lat*gridPerDegree)), int32(math.Floor(lon*gridPerDegree))
+	// Two-way: a cell may sit in slot h or its neighbour h^1, so two cells that hash alike can both stay.
+	h := mix(uint64(uint32(ilat)), uint64(uint32(ilon))) & (gridSlots - 1)
+	gs := &r.auto.grid[h]
+	g := gs.Load()
+	if g == nil || g.ilat != ilat || g.ilon != ilon {
+		if g2 := r.auto.grid[h^1].Load(); g2 != nil && g2.ilat == ilat && g2.ilon == ilon {
+			g = g2
+		} else if g != nil {
+			gs = &r.auto.grid[h^1] // a miss replaces the neighbour, keeping slot h's entry
+		}
+	}
+	if g != nil && g.ilat == ilat && g.ilon == ilon && g.zi != nil {
+		return g.zi, nil
 	}
 	ex := &r.auto.exact[mix(math.Float64bits(lat), math.Float64bits(lon))&(exactSlots-1)]
 	if e := ex.Load(); e != nil && e.lat == lat && e.lon == lon {
@@ -172,19 +225,29 @@ func (r *Resolver) at(lat, lon float64) (*zoneInfo, error) {
 	if err != nil {
 		return nil, err
 	}
-	t := f.tileOf(lon, lat)
-	cs := &r.auto.cells[mix(uint64(t.X)<<32|uint64(t.Y), uint64(t.Z))&(cellSlots-1)]
-	c := cs.Load()
-	if c == nil || c.tile != t {
-		c = &cellEntry{tile: t}
-		if name := f.preindexed(t); name != "" {
-			zi, err := r.named(name)
-			if err != nil {
+	if g == nil || g.ilat != ilat || g.ilon != ilon {
+		g = &gridEntry{ilat: ilat, ilon: ilon}
+		if name := f.cellZone(ilat, ilon); name != "" {
+			if g.zi, err = r.named(name); err != nil {
 				return nil, err
 			}
-			c.zi = zi
 		}
-		cs.Store(c)
+		gs.Store(g)
+		if g.zi != nil {
+			return g.zi, nil
+		}
+	}
+	t := f.tileOf(lon, lat)
+	ts := &r.auto.tiles[mix(uint64(t.X)<<32|uint64(t.Y), uint64(t.Z))&(tileSlots-1)]
+	c := ts.Load()
+	if c == nil || c.tile != t {
+		c = &tileEntry{tile: t}
+		if name := f.preindexed(t); name != "" {
+			if c.zi, err = r.named(name); err != nil {
+				return nil, err
+			}
+		}
+		ts.Store(c)
 	}
 	if c.zi != nil {
 		return c.zi, nil

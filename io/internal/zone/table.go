@@ -35,7 +35,15 @@ type table struct {
 	starts []int64 // wall second at which segment i starts; starts[0] is math.MinInt64
 	segs   []seg
 	hi     int64 // walls >= hi are resolved by search
+	// buckets[k] is the segment holding wall bucketBase + k<<bucketShift: a wall's segment is found
+	// from its bucket's in a step or two (a bucket spans about 194 days).
+	buckets []int32
 }
+
+const (
+	bucketBase  = -3786825600 // 1850-01-01 00:00:00 as a wall
+	bucketShift = 24
+)
 
 // tableEnd is the instant (2101-01-01T00:00:00Z) after which tables stop listing transitions.
 const tableEnd = 4133980800
@@ -49,8 +57,27 @@ func offsetAt(loc *time.Location, sec int64) int {
 	return off
 }
 
-// buildTable lists loc's wall-clock segments.
+// buildTable lists loc's wall-clock segments and indexes them.
 func buildTable(loc *time.Location) *table {
+	t := listSegments(loc)
+	end := min(t.hi, tableEnd+86400)
+	if end > bucketBase {
+		n := int((end-bucketBase)>>bucketShift) + 1
+		t.buckets = make([]int32, n)
+		i := 0
+		for k := range t.buckets {
+			w := bucketBase + int64(k)<<bucketShift
+			for i+1 < len(t.starts) && t.starts[i+1] <= w {
+				i++
+			}
+			t.buckets[k] = int32(i)
+		}
+	}
+	return t
+}
+
+// listSegments lists loc's wall-clock segments.
+func listSegments(loc *time.Location) *table {
 	t := time.Unix(minStart, 0).In(loc)
 	_, prev := t.Zone()
 	tab := &table{starts: []int64{math.MinInt64}, segs: []seg{{off: int32(prev), kind: kindUnique}}}
@@ -108,6 +135,13 @@ func (t *table) add(start int64, s seg) {
 
 // find returns the index of the segment holding wall w (w < t.hi).
 func (t *table) find(w int64) int {
+	if k := (w - bucketBase) >> bucketShift; w >= bucketBase && k < int64(len(t.buckets)) {
+		i := int(t.buckets[k])
+		for i+1 < len(t.starts) && t.starts[i+1] <= w {
+			i++
+		}
+		return i
+	}
 	lo, hi := 0, len(t.starts) // starts[lo] <= w < starts[hi]
 	for hi-lo > 1 {
 		mid := int(uint(lo+hi) >> 1)

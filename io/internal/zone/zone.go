@@ -284,6 +284,11 @@ func (r *Resolver) Resolve(s stamp.Stamp, rowZone string, lat, lon float64) (ins
 		return fromOffset(s), zi.loc, "", nil
 	}
 	w := s.Wall()
+	if tab := zi.tab; w < tab.hi { // the common case, inlined
+		if sg := tab.segs[tab.find(w)]; sg.kind == kindUnique {
+			return time.Unix(w-int64(sg.off), int64(s.Nanosecond)).UTC(), zi.loc, "", nil
+		}
+	}
 	res := zi.tab.lookup(zi.loc, w)
 	switch res.kind {
 	case kindUnique:
