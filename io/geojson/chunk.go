@@ -4,10 +4,10 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
-	"strconv"
 	"time"
 
 	"github.com/heliotag/heliotag/enrich"
+	"github.com/heliotag/heliotag/io/internal/num"
 )
 
 // chunk is a run of features as JSON text.
@@ -256,12 +256,18 @@ func (c *chunk) Encode(res *enrich.Results) error {
 		b = make([]byte, 0, len(c.buf)+c.Len()*(8+32*len(cols)))
 	}
 	c.nout = 0
+	// With no added columns (a passthrough) Extract has not run: every
+	// feature is copied as read.
+	pass := len(cols) == 0 || len(c.info) != c.Len()
 	for i := range c.Len() {
 		if res.Status[i] == enrich.RowRejected {
 			continue
 		}
 		f := c.feature(i)
-		inf := c.info[i]
+		var inf featInfo
+		if !pass {
+			inf = c.info[i]
+		}
 		if c.rd.seq {
 			if c.rd.outRS {
 				b = append(b, 0x1E)
@@ -271,7 +277,7 @@ func (c *chunk) Encode(res *enrich.Results) error {
 		}
 		c.nout++
 		switch {
-		case !inf.valid || !inf.object || !inf.feature || inf.props == propsOther:
+		case pass || !inf.valid || !inf.object || !inf.feature || inf.props == propsOther:
 			// Nothing can hold the added columns: written as read (keep policy).
 			b = append(b, f...)
 		case inf.props == propsObject:
@@ -311,7 +317,7 @@ func appendMembers(b []byte, res *enrich.Results, i int, keys [][]byte, comma bo
 		switch col.Kind {
 		case enrich.KindFloat:
 			if v, ok := res.Float(col.Field, i); ok {
-				b = strconv.AppendFloat(b, v, 'f', col.Decimals, 64)
+				b = num.AppendFixed(b, v, col.Decimals)
 				continue
 			}
 		case enrich.KindCategory:
