@@ -19,8 +19,8 @@ import (
 //   - timestamps with a zone as RFC 3339 in UTC ("2024-06-21T18:30:00Z"),
 //     without one as ISO local date-times ("2024-06-21T18:30:00"); dates as
 //     yyyy-mm-dd; times of day as HH:MM:SS with the fraction when present;
-//   - dictionary values by their value; anything else (lists, structs, maps,
-//     durations, intervals) in Arrow's own text form.
+//   - dictionary values by their value; anything else in Arrow's own text
+//     form (JSON for lists, structs and maps: ["a","b"], {"x":1}).
 func valueText(a arrow.Array, i int) string {
 	if a.IsNull(i) {
 		return ""

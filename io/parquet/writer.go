@@ -5,10 +5,12 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"math"
 	"sort"
 	"strings"
 
 	"github.com/apache/arrow-go/v18/arrow"
+	"github.com/apache/arrow-go/v18/arrow/array"
 	pq "github.com/apache/arrow-go/v18/parquet"
 	"github.com/apache/arrow-go/v18/parquet/compress"
 	"github.com/apache/arrow-go/v18/parquet/pqarrow"
@@ -40,6 +42,10 @@ type WriterOptions struct {
 	// DefaultRowGroupRows. A row group is also closed early when it reaches
 	// 128 MiB compressed.
 	RowGroupRows int
+
+	// dataPageSize is the target data page size in bytes, 0 meaning the
+	// library's (1 MiB); tests make it small to cut many pages.
+	dataPageSize int64
 }
 
 // ParseCompression checks a codec name (case-insensitive; "none" is
@@ -64,11 +70,16 @@ func ParseCompression(name string) (compress.Compression, error) {
 
 // Writer writes the enriched chunks of a Reader as one Parquet file.
 type Writer struct {
-	rd     *Reader
-	bw     *bufio.Writer
-	fw     *pqarrow.FileWriter
-	schema *arrow.Schema
-	rows   int64
+	rd          *Reader
+	bw          *bufio.Writer
+	fw          *pqarrow.FileWriter
+	schema      *arrow.Schema
+	rows        int64 // rows written
+	groupRows   int64 // rows per row group
+	rowsInGroup int64 // rows in the current row group
+	pend        []arrow.RecordBatch
+	pendRows    int64
+	closed      bool
 }
 
 // hideClose keeps pqarrow from closing the caller's writer (it closes any
@@ -96,9 +107,12 @@ func NewWriter(w io.Writer, rd *Reader, plan *enrich.Plan, o WriterOptions) (*Wr
 	}
 	opts := []pq.WriterProperty{
 		pq.WithAllocator(rd.mem),
-		pq.WithMaxRowGroupLength(int64(rows)),
+		pq.WithMaxRowGroupLength(math.MaxInt64), // row groups are cut by Write
 		pq.WithDictionaryDefault(true),
 		pq.WithStats(true),
+	}
+	if o.dataPageSize > 0 {
+		opts = append(opts, pq.WithDataPageSize(o.dataPageSize))
 	}
 	codecs, fallback := rd.codecs()
 	if o.Compression != "" {
@@ -129,7 +143,7 @@ func NewWriter(w io.Writer, rd *Reader, plan *enrich.Plan, o WriterOptions) (*Wr
 	if err != nil {
 		return nil, fmt.Errorf("parquet: starting the output: %w", err)
 	}
-	return &Writer{rd: rd, bw: bw, fw: fw, schema: out.schema}, nil
+	return &Writer{rd: rd, bw: bw, fw: fw, schema: out.schema, groupRows: int64(rows)}, nil
 }
 
 func hasInstants(plan *enrich.Plan) bool {
@@ -196,8 +210,15 @@ func (rd *Reader) allInt96() bool {
 	return n96 > 0 && nts == 0
 }
 
-// Write appends an encoded chunk to the current row group and releases the
+// Write appends an encoded chunk's rows to the output and releases the
 // chunk's Arrow memory.
+//
+// Rows reach the Parquet column writers in blocks of exactly writeBlock rows
+// (fewer only at the end of a row group or of the file), whatever the chunk
+// sizes: page and row-group boundaries then depend on the rows alone, so the
+// output's bytes do not depend on the batch size or the number of workers. A
+// block that spans two chunks is copied together (at most writeBlock-1 rows
+// per chunk).
 func (w *Writer) Write(_ context.Context, ch enrich.Chunk) (err error) {
 	c, ok := ch.(*chunk)
 	if !ok || c.out == nil {
@@ -205,27 +226,110 @@ func (w *Writer) Write(_ context.Context, ch enrich.Chunk) (err error) {
 	}
 	defer c.release()
 	defer recoverInto(&err)
-	if c.out.NumRows() == 0 {
-		return nil
-	}
-	if err := w.fw.WriteBuffered(c.out); err != nil {
-		return fmt.Errorf("writing output: %w", err)
-	}
-	w.rows += c.out.NumRows()
-	if w.fw.RowGroupTotalCompressedBytes() >= maxRowGroupBytes {
-		if err := w.fw.NewBufferedRowGroupChecked(); err != nil {
-			return fmt.Errorf("writing output: %w", err)
+	rec := c.out
+	n := rec.NumRows()
+	for off := int64(0); off < n; {
+		need := w.blockRows() - w.pendRows
+		take := min(need, n-off)
+		part := rec.NewSlice(off, off+take)
+		off += take
+		if w.pendRows == 0 && take == need {
+			err = w.writeBlock(part)
+			part.Release()
+		} else {
+			w.pend = append(w.pend, part)
+			w.pendRows += take
+			if w.pendRows == w.blockRows() {
+				err = w.flushPending()
+			}
+		}
+		if err != nil {
+			return err
 		}
 	}
 	return nil
 }
 
-// Close writes the last row group and the footer, and flushes. It does not
-// close the underlying writer.
+// writeBlock is the number of rows passed to the column writers at once.
+const writeBlock = 4096
+
+// blockRows is the size of the block being filled: writeBlock, or what is
+// left of the row group.
+func (w *Writer) blockRows() int64 {
+	return min(writeBlock, w.groupRows-w.rowsInGroup)
+}
+
+// flushPending writes the pieces of a block gathered from several chunks.
+func (w *Writer) flushPending() error {
+	if w.pendRows == 0 {
+		return nil
+	}
+	defer func() {
+		for _, p := range w.pend {
+			p.Release()
+		}
+		w.pend, w.pendRows = w.pend[:0], 0
+	}()
+	if len(w.pend) == 1 {
+		return w.writeBlock(w.pend[0])
+	}
+	cols := make([]arrow.Array, w.schema.NumFields())
+	defer func() {
+		for _, a := range cols {
+			if a != nil {
+				a.Release()
+			}
+		}
+	}()
+	parts := make([]arrow.Array, len(w.pend))
+	for j := range cols {
+		for k, p := range w.pend {
+			parts[k] = p.Column(j)
+		}
+		a, err := array.Concatenate(parts, w.rd.mem)
+		if err != nil {
+			return fmt.Errorf("parquet: gathering rows: %w", err)
+		}
+		cols[j] = a
+	}
+	rec := array.NewRecordBatch(w.schema, cols, w.pendRows)
+	defer rec.Release()
+	return w.writeBlock(rec)
+}
+
+// writeBlock writes one block into the current row group, starting a new
+// group when the current one is full (in rows, or in compressed bytes).
+func (w *Writer) writeBlock(rec arrow.RecordBatch) error {
+	if w.rowsInGroup == 0 {
+		if err := w.fw.NewBufferedRowGroupChecked(); err != nil {
+			return fmt.Errorf("writing output: %w", err)
+		}
+	}
+	if err := w.fw.WriteBuffered(rec); err != nil {
+		return fmt.Errorf("writing output: %w", err)
+	}
+	w.rows += rec.NumRows()
+	w.rowsInGroup += rec.NumRows()
+	if w.rowsInGroup == w.groupRows || w.fw.RowGroupTotalCompressedBytes() >= maxRowGroupBytes {
+		w.rowsInGroup = 0
+	}
+	return nil
+}
+
+// Close writes the last rows, the last row group and the footer, and
+// flushes. It does not close the underlying writer.
 func (w *Writer) Close() (err error) {
 	defer recoverInto(&err)
-	if err := w.fw.Close(); err != nil {
-		return fmt.Errorf("writing output: %w", err)
+	if w.closed {
+		return nil
+	}
+	w.closed = true
+	ferr := w.flushPending()
+	if err := w.fw.Close(); err != nil && ferr == nil {
+		ferr = err
+	}
+	if ferr != nil {
+		return fmt.Errorf("writing output: %w", ferr)
 	}
 	if err := w.bw.Flush(); err != nil {
 		return fmt.Errorf("writing output: %w", err)
