@@ -1,15 +1,18 @@
 package zone
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"sync"
 	"testing"
 	"time"
 
 	"github.com/heliotag/heliotag/io/internal/stamp"
+	"github.com/paulmach/orb/maptile"
 	"github.com/ringsaturn/tzf"
 )
 
@@ -135,8 +138,35 @@ func TestAutoMatchesTzf(t *testing.T) {
 			pts = append(pts, pt{b[0] + rng.Float64()*(b[1]-b[0]), b[2] + rng.Float64()*(b[3]-b[2])})
 		}
 	}
+	// Points just inside and just outside the edges of preindexed tiles and of grid cells, where the
+	// cell and tile caches must hand over exactly.
+	f, err := sharedFinder()
+	if err != nil {
+		t.Fatal(err)
+	}
+	keys := make([]maptile.Tile, 0, len(f.tiles))
+	for k := range f.tiles {
+		keys = append(keys, k)
+	}
+	slices.SortFunc(keys, func(a, b maptile.Tile) int { return cmp.Or(cmp.Compare(a.Z, b.Z), cmp.Compare(a.X, b.X), cmp.Compare(a.Y, b.Y)) })
+	for i := 0; i < 400; i++ {
+		b := keys[rng.IntN(len(keys))].Bound()
+		for _, d := range []float64{-1e-9, -1e-12, 0, 1e-12, 1e-9} {
+			pts = append(pts, pt{b.Min.Lat() + d, b.Min.Lon() + d}, pt{b.Max.Lat() + d, b.Max.Lon() + d},
+				pt{b.Min.Lat() + d, b.Max.Lon() - d}, pt{b.Max.Lat() - d, b.Min.Lon() + d})
+		}
+	}
+	for i := 0; i < 400; i++ {
+		lat, lon := float64(rng.IntN(180*64)-90*64)/64, float64(rng.IntN(360*64)-180*64)/64
+		for _, d := range []float64{-1e-12, 0, 1e-12} {
+			pts = append(pts, pt{lat + d, lon + d})
+		}
+	}
 	for pass := 0; pass < 2; pass++ {
 		for _, p := range pts {
+			if !validCoords(p.lat, p.lon) {
+				continue
+			}
 			loc, err := r.Zone("", p.lat, p.lon)
 			want := ref.GetTimezoneName(p.lon, p.lat)
 			if err != nil || loc.String() != want {

@@ -72,7 +72,7 @@ func Load(name string) (*time.Location, error) {
 	if err == nil {
 		return loc, nil
 	}
-	msg := "unknown time zone " + strconv.Quote(n)
+	msg := "unknown time zone " + quoteName(n)
 	if s := suggest(n); s != "" {
 		msg += `; did you mean "` + s + `"?`
 	} else {
@@ -84,9 +84,20 @@ func Load(name string) (*time.Location, error) {
 	return nil, &zoneError{msg, ErrUnknownZone}
 }
 
+// maxNameLen bounds the zone names remembered and repeated in messages (IANA names are far shorter).
+const maxNameLen = 64
+
+// quoteName quotes a name for a message, cut to maxNameLen bytes.
+func quoteName(n string) string {
+	if len(n) > maxNameLen {
+		return strconv.Quote(n[:maxNameLen]) + "..."
+	}
+	return strconv.Quote(n)
+}
+
 // suggest returns a loadable spelling of name that differs only in letter case, or "".
 func suggest(name string) string {
-	if len(name) > 64 || strings.ContainsAny(name, " .\\") {
+	if len(name) > maxNameLen || strings.ContainsAny(name, " .\\") {
 		return ""
 	}
 	upper := strings.ToUpper(name)
@@ -378,7 +389,7 @@ func (r *Resolver) load(name string) (*zoneInfo, error) {
 	var e nameEntry
 	if loc, err := Load(name); err != nil {
 		e.err = err
-		if r.bad >= maxBadNames {
+		if r.bad >= maxBadNames || len(name) > maxNameLen {
 			return nil, err
 		}
 		r.bad++
@@ -389,7 +400,7 @@ func (r *Resolver) load(name string) (*zoneInfo, error) {
 	for k, v := range old {
 		m[k] = v
 	}
-	m[name] = &e
+	m[strings.Clone(name)] = &e // the row's text may share memory with a whole input batch
 	r.names.Store(&m)
 	return e.zi, e.err
 }

@@ -382,6 +382,15 @@ func TestModeColumn(t *testing.T) {
 	if n := len(*r.names.Load()); n > maxBadNames+10 {
 		t.Errorf("name cache holds %d entries, want at most %d", n, maxBadNames+10)
 	}
+	// A huge value is an error with a bounded message, and is not remembered.
+	long := strings.Repeat("x", 10<<20)
+	before := len(*r.names.Load())
+	if _, _, _, err := r.Resolve(s, long, 0, 0); !errors.Is(err, ErrUnknownZone) || len(err.Error()) > 300 {
+		t.Errorf("10 MB name: error of %d bytes, %v", len(err.Error()), errors.Is(err, ErrUnknownZone))
+	}
+	if after := len(*r.names.Load()); after != before {
+		t.Errorf("10 MB name was cached (%d → %d entries)", before, after)
+	}
 	if loc, err := r.Zone("Asia/Kolkata", 0, 0); err != nil || loc.String() != "Asia/Kolkata" {
 		t.Errorf("Zone: %v %v", loc, err)
 	}
