@@ -148,7 +148,9 @@ func TestAutoMatchesTzf(t *testing.T) {
 	for k := range f.tiles {
 		keys = append(keys, k)
 	}
-	slices.SortFunc(keys, func(a, b maptile.Tile) int { return cmp.Or(cmp.Compare(a.Z, b.Z), cmp.Compare(a.X, b.X), cmp.Compare(a.Y, b.Y)) })
+	slices.SortFunc(keys, func(a, b maptile.Tile) int {
+		return cmp.Or(cmp.Compare(a.Z, b.Z), cmp.Compare(a.X, b.X), cmp.Compare(a.Y, b.Y))
+	})
 	for i := 0; i < 400; i++ {
 		b := keys[rng.IntN(len(keys))].Bound()
 		for _, d := range []float64{-1e-9, -1e-12, 0, 1e-12, 1e-9} {
