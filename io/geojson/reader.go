@@ -248,13 +248,13 @@ func (rd *Reader) open() error {
 		}
 		if tok == json.Delim('}') {
 			if rd.typ == "Feature" {
-				return rd.notCollection()
+				return rd.notCollection(0)
 			}
 			return rd.cr.syntaxAt(rd.dec.InputOffset()-1, 0, fmt.Errorf("%w: the top-level object has no \"features\" member", ErrNotCollection))
 		}
 		key, _ := tok.(string)
 		if key == "features" {
-			at := rd.dec.InputOffset()
+			at := rd.valueOffset()
 			tok, err := rd.dec.Token()
 			if err != nil {
 				return rd.fail(err, 0)
@@ -283,18 +283,42 @@ func (rd *Reader) member(key string) (rawMember, error) {
 		rd.hasType = true
 		rd.typ = valueText(m.value)
 		if rd.typ != "FeatureCollection" {
-			return m, rd.notCollection()
+			return m, rd.notCollection(rd.dec.InputOffset() - int64(len(rd.raw)))
 		}
 	}
 	return m, nil
 }
 
-func (rd *Reader) notCollection() error {
+// valueOffset returns the offset of the next value after a member's key
+// (past the colon and white space), when the decoder has it buffered, and
+// else the decoder's position.
+func (rd *Reader) valueOffset() int64 {
+	at := rd.dec.InputOffset()
+	b, _ := rd.dec.Buffered().(*bytes.Reader)
+	if b == nil {
+		return at
+	}
+	colon := false
+	for i := int64(0); ; i++ {
+		c, err := b.ReadByte()
+		switch {
+		case err != nil:
+			return at
+		case isSpace(c):
+		case c == ':' && !colon:
+			colon = true
+		default:
+			return at + i
+		}
+	}
+}
+
+func (rd *Reader) notCollection(at int64) error {
 	hint := ""
 	if rd.typ == "Feature" {
 		hint = "; a file of Features, one per line, is read with --from geojsonseq"
 	}
-	return rd.cr.syntaxAt(rd.dec.InputOffset(), 0, fmt.Errorf("%w: the top-level \"type\" is %q; expected \"FeatureCollection\"%s", ErrNotCollection, rd.typ, hint))
+	return rd.cr.syntaxAt(at, 0, fmt.Errorf("%w: the top-level \"type\" is %q; expected \"FeatureCollection\"%s", ErrNotCollection, rd.typ, hint))
 }
 
 func tokenName(t json.Token) string {
