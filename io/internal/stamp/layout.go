@@ -6,26 +6,8 @@ import (
 	"time"
 )
 
-// A strftime layout is compiled once into a program: a slice of ops run left to right over the text.
-//
-// Directives (all of them read; none is accepted in output-only form):
-//
-//	%Y  year, exactly 4 digits            %y  year, 2 digits: 69..99 → 1969..1999, 00..68 → 2000..2068
-//	%m  month 1..12, 1 or 2 digits        %b %B  English month name, full or 3-letter (and "Sept"), any case
-//	%d  day 1..31, 1 or 2 digits          %e  as %d, leading spaces allowed
-//	%j  day of year 1..366, 1 to 3 digits %a %A  English weekday name, full or 3-letter, checked against the date
-//	%H  hour 0..23, 1 or 2 digits         %I  hour 1..12, 1 or 2 digits (needs %p)
-//	%M  minute, 1 or 2 digits             %S  second, 1 or 2 digits
-//	%f  fraction of a second, 1+ digits (past 9 digits truncated; needs %S)
-//	%p  AM or PM, any case, with or without dots (a.m.)
-//	%z  Z or ±hh:mm, ±hhmm, ±hh           %Z  UTC or GMT only (other abbreviations are ambiguous)
-//	%T  = %H:%M:%S   %R = %H:%M   %F = %Y-%m-%d   %D = %m/%d/%y
-//	%n %t and any white space in the layout: zero or more spaces or tabs
-//	%%  a literal %
-//
-// Other bytes match themselves exactly. Numeric directives written next to each other with nothing
-// between (%Y%m%d, %H%M) read a run of digits: every directive but the first takes its full width and
-// the first takes what is left, so %H%M reads both 0730 and 730 as 07:30.
+// A strftime layout is compiled once into a program: a slice of ops run left to right over the
+// text. The directives are listed in the package documentation (doc.go).
 
 type opKind uint8
 

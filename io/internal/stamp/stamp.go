@@ -1,12 +1,3 @@
-// Package stamp reads timestamps written as text: RFC 3339 / ISO 8601 date-times with or without a UTC
-// offset, a date and a time of day held in two columns, strftime layouts, and Unix epoch numbers.
-//
-// A parsed value is a Stamp: the wall clock as written, plus the UTC offset when the text carried one.
-// Turning an offset-less wall clock into an instant needs a time zone, which is package zone's job.
-//
-// The parsers are hand-written state machines (no time.Parse): a Parser compiles its options once in
-// NewParser, is immutable afterwards, is safe for concurrent use by many goroutines, and does not
-// allocate when a parse succeeds.
 package stamp
 
 import (
