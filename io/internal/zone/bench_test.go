@@ -2,6 +2,7 @@ package zone
 
 import (
 	"math/rand/v2"
+	"runtime"
 	"testing"
 	"time"
 
@@ -177,4 +178,23 @@ func BenchmarkSearch(b *testing.B) {
 	for b.Loop() {
 		search(loc, 7000000000) // 2191
 	}
+}
+
+// BenchmarkFinderBuild measures building the --tz auto finder (done once per process) and the heap it
+// keeps. Run with -benchtime 1x.
+func BenchmarkFinderBuild(b *testing.B) {
+	var f *finder
+	var before, after runtime.MemStats
+	runtime.GC()
+	runtime.ReadMemStats(&before)
+	for b.Loop() {
+		var err error
+		if f, err = newFinder(); err != nil {
+			b.Fatal(err)
+		}
+	}
+	runtime.GC()
+	runtime.ReadMemStats(&after)
+	runtime.KeepAlive(f)
+	b.ReportMetric(float64(int64(after.HeapAlloc)-int64(before.HeapAlloc))/(1<<20), "heap-MiB")
 }
