@@ -156,13 +156,13 @@ type Options struct {
 	Name string
 }
 
-// OptionsFromFlag maps the value of --tz to Options: "" is None, "auto" is Auto, anything else is
-// Fixed with that name. (--tz-column is Options{Mode: Column}.)
+// OptionsFromFlag maps the value of --tz to Options: "" is None, "auto" (any case) is Auto, anything
+// else is Fixed with that name. (--tz-column is Options{Mode: Column}.)
 func OptionsFromFlag(tz string) Options {
-	switch tz {
-	case "":
+	switch {
+	case tz == "":
 		return Options{}
-	case "auto":
+	case strings.EqualFold(tz, "auto"):
 		return Options{Mode: Auto}
 	}
 	return Options{Mode: Fixed, Name: tz}

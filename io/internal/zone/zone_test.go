@@ -275,7 +275,7 @@ func TestNewResolverErrors(t *testing.T) {
 			t.Errorf("NewResolver(%+v) error = %v, want %v", tc.o, err, tc.want)
 		}
 	}
-	if got := OptionsFromFlag("auto"); got != (Options{Mode: Auto}) {
+	if got := OptionsFromFlag("Auto"); got != (Options{Mode: Auto}) {
 		t.Errorf("OptionsFromFlag(auto) = %+v", got)
 	}
 	if got := OptionsFromFlag("Europe/Paris"); got != (Options{Mode: Fixed, Name: "Europe/Paris"}) {
