@@ -26,13 +26,13 @@ import (
 
 // Causes, matched with errors.Is.
 var (
-	// ErrNoTimeZone: a time without a UTC offset and no zone to read it in (no --tz, --tz-column or
-	// --tz auto), or an empty --tz-column value.
+	// ErrNoTimeZone: a time without a UTC offset and no zone to read it in (Mode None: no --tz,
+	// --tz-column or --tz auto). It is a problem of the options rather than of one row.
 	ErrNoTimeZone = errors.New("zone: no time zone for a local time")
 	// ErrNonexistent: a local time inside a spring-forward gap, which never happened on the clocks of
 	// that zone.
 	ErrNonexistent = errors.New("zone: local time does not exist in its zone")
-	// ErrUnknownZone: a name that is not an IANA time zone name.
+	// ErrUnknownZone: a name that is not an IANA time zone name, including an empty --tz-column value.
 	ErrUnknownZone = errors.New("zone: unknown time zone name")
 	// ErrNoZoneFound: --tz auto found no zone at the coordinates (they are out of range or NaN, or
 	// the boundary data has no zone there).
@@ -373,7 +373,7 @@ func (r *Resolver) column(name string) (*zoneInfo, error) {
 		return e.zi, e.err
 	}
 	if strings.TrimSpace(name) == "" {
-		return nil, &zoneError{"empty time zone in the --tz-column value; expected an IANA name such as " + example, ErrNoTimeZone}
+		return nil, &zoneError{"empty --tz-column value; expected an IANA time zone name such as " + example, ErrUnknownZone}
 	}
 	return r.load(name)
 }

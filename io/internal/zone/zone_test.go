@@ -370,7 +370,9 @@ func TestModeColumn(t *testing.T) {
 	if _, _, _, err := r.Resolve(s, "Atlantis/Capital", 0, 0); !errors.Is(err, ErrUnknownZone) {
 		t.Errorf("unknown name, cached: %v", err)
 	}
-	if _, _, _, err := r.Resolve(s, " ", 0, 0); !errors.Is(err, ErrNoTimeZone) || !strings.Contains(err.Error(), "empty time zone") {
+	// An empty value is a bad row (ErrUnknownZone), not a missing option (ErrNoTimeZone).
+	if _, _, _, err := r.Resolve(s, " ", 0, 0); !errors.Is(err, ErrUnknownZone) || errors.Is(err, ErrNoTimeZone) ||
+		!strings.Contains(err.Error(), "empty --tz-column value") {
 		t.Errorf("empty name: %v", err)
 	}
 	// Unknown names beyond the cache bound are still errors.
