@@ -126,14 +126,6 @@ func (f *finder) name(lon, lat float64) string {
 	return f.poly.GetTimezoneName(lon, lat)
 }
 
-// lookup is the full uncached lookup, equal to tzf's DefaultFinder.GetTimezoneName.
-func (f *finder) lookup(lon, lat float64) string {
-	if name := f.preindexed(f.tileOf(lon, lat)); name != "" {
-		return name
-	}
-	return f.outside(lon, lat)
-}
-
 // Cache sizes (slots of a direct-mapped cache; a new entry replaces whatever held its slot).
 const (
 	exactSlots = 1 << 12

@@ -164,6 +164,13 @@ func TestAutoMatchesTzf(t *testing.T) {
 			pts = append(pts, pt{lat + d, lon + d})
 		}
 	}
+	// A point in a sliver the simplified polygons leave uncovered (Sea of Azov), where the lookup falls
+	// back to the points 0.02° around, as tzf does.
+	sliver := pt{46.33188149734352, 37.66383149268768}
+	if f.poly.GetTimezoneName(sliver.lon, sliver.lat) != "" {
+		t.Errorf("the polygons now cover %v; pick another uncovered point to keep the fallback tested", sliver)
+	}
+	pts = append(pts, sliver)
 	for pass := 0; pass < 2; pass++ {
 		for _, p := range pts {
 			if !validCoords(p.lat, p.lon) {
