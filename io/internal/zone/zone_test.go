@@ -508,3 +508,40 @@ func ExampleLoad() {
 	// Output:
 	// unknown time zone "america/chicago"; did you mean "America/Chicago"?
 }
+
+// TestPeriodEnd walks the rule-based future of zones period by period and checks, hour by hour, that
+// no offset change is skipped or invented: periodEnd must stay correct where ZoneBounds misreports the
+// end of leap years (Go 1.26 puts it a day early for such zones, e.g. New York at 2040-12-31).
+func TestPeriodEnd(t *testing.T) {
+	for _, name := range []string{"America/New_York", "Australia/Lord_Howe", "Europe/London"} {
+		loc, _ := time.LoadLocation(name)
+		start, stop := utc("2030-01-01T00:00:00Z").Unix(), utc("2101-01-01T00:00:00Z").Unix()
+		tm := time.Unix(start, 0).In(loc)
+		var ends []int64
+		for tm.Unix() < stop {
+			end := periodEnd(tm)
+			if end.IsZero() || !end.After(tm) {
+				t.Fatalf("%s: periodEnd(%v) = %v", name, tm, end)
+			}
+			ends = append(ends, end.Unix())
+			tm = end
+		}
+		// Every offset change (found hourly, then to the second) must be one of the ends.
+		for h := start; h+3600 <= stop; h += 3600 {
+			if offsetAt(loc, h) == offsetAt(loc, h+3600) {
+				continue
+			}
+			lo, hi := h, h+3600
+			for hi-lo > 1 {
+				if mid := lo + (hi-lo)/2; offsetAt(loc, mid) == offsetAt(loc, h) {
+					lo = mid
+				} else {
+					hi = mid
+				}
+			}
+			if !slices.Contains(ends, hi) {
+				t.Fatalf("%s: offset change at %v is not a period end", name, time.Unix(hi, 0).UTC())
+			}
+		}
+	}
+}
