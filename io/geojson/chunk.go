@@ -251,9 +251,14 @@ func (c *chunk) Encode(res *enrich.Results) error {
 	for j, col := range cols {
 		keys[j] = appendString(nil, col.Name)
 	}
+	need := len(c.buf) + c.Len()*(8+32*len(cols))
 	b := c.out[:0]
 	if b == nil {
-		b = make([]byte, 0, len(c.buf)+c.Len()*(8+32*len(cols)))
+		if p, ok := c.rd.bufs.Get().(*[]byte); ok && cap(*p) >= need/2 {
+			b = (*p)[:0]
+		} else {
+			b = make([]byte, 0, need)
+		}
 	}
 	c.nout = 0
 	// With no added columns (a passthrough) Extract has not run: every

@@ -100,7 +100,7 @@ func checkGeometry(b []byte, depth int) (typ string, coords []byte, err error) {
 		case keyIs(b[m.key0:m.key1], "type"):
 			hasType = true
 			if b[m.val0] == '"' {
-				typ = unquote(b[m.val0:m.val1])
+				typ = typeName(b[m.val0:m.val1])
 			}
 		case keyIs(b[m.key0:m.key1], "coordinates"):
 			coords = b[m.val0:m.val1]
@@ -153,6 +153,28 @@ var (
 	errPosition = errors.New("a position needs at least longitude and latitude, e.g. [8.54, 47.37]")
 	errNesting  = errors.New("arrays nested at the wrong depth for this type")
 )
+
+// typeName returns the geometry type named by the JSON string q, without
+// allocating for the RFC 7946 types.
+func typeName(q []byte) string {
+	switch string(q) {
+	case `"Point"`:
+		return "Point"
+	case `"MultiPoint"`:
+		return "MultiPoint"
+	case `"LineString"`:
+		return "LineString"
+	case `"MultiLineString"`:
+		return "MultiLineString"
+	case `"Polygon"`:
+		return "Polygon"
+	case `"MultiPolygon"`:
+		return "MultiPolygon"
+	case `"GeometryCollection"`:
+		return "GeometryCollection"
+	}
+	return unquote(q)
+}
 
 // checkCoordinates checks that positions sit at nesting depth want and hold
 // at least two numbers each, and that nothing but arrays sits above them.

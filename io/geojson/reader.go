@@ -8,6 +8,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"sync"
 
 	"github.com/heliotag/heliotag/enrich"
 	"github.com/heliotag/heliotag/io/internal/fields"
@@ -45,12 +46,13 @@ type Reader struct {
 
 	// text sequence
 	br        *bufio.Reader
-	rs        bool     // records are split by RS rather than by line ends
-	outRS     bool     // the writer frames records with RS (set by NewWriter)
-	added     [][]byte // the added columns' names as JSON strings (set by NewWriter)
-	off       int64    // bytes consumed
-	line      int64    // line ends consumed
-	lineStart int64    // offset where the current line starts
+	rs        bool      // records are split by RS rather than by line ends
+	outRS     bool      // the writer frames records with RS (set by NewWriter)
+	added     [][]byte  // the added columns' names as JSON strings (set by NewWriter)
+	bufs      sync.Pool // *[]byte: chunk input and output buffers, back from the writer
+	off       int64     // bytes consumed
+	line      int64     // line ends consumed
+	lineStart int64     // offset where the current line starts
 	eof       bool
 }
 
@@ -197,7 +199,11 @@ func (rd *Reader) Next(ctx context.Context, max int) (enrich.Chunk, error) {
 		c.add(f.off, f.line, f.col)
 	}
 	if c.Len() < max && c.buf == nil {
-		c.buf = make([]byte, 0, 160*max)
+		if b, ok := rd.bufs.Get().(*[]byte); ok && cap(*b) >= 64*max {
+			c.buf = (*b)[:0]
+		} else {
+			c.buf = make([]byte, 0, 160*max)
+		}
 	}
 	for c.Len() < max {
 		var off, line, col int64

@@ -70,7 +70,14 @@ func (w *Writer) Write(_ context.Context, ch enrich.Chunk) error {
 		_, err = w.w.Write(c.out)
 	}
 	w.written += int64(c.nout)
-	c.out, c.buf = nil, nil
+	// The chunk is done with: its buffers serve later chunks.
+	for _, p := range []*[]byte{&c.out, &c.buf} {
+		if cap(*p) > 0 {
+			b := (*p)[:0]
+			w.rd.bufs.Put(&b)
+		}
+		*p = nil
+	}
 	if err != nil {
 		return fmt.Errorf("writing output: %w", err)
 	}
