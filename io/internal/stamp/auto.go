@@ -14,13 +14,12 @@ import "time"
 // A single space may stand between the clock and the zone ("2024-06-21 18:30:00 UTC", as some database
 // exports write). Leading and trailing spaces, tabs and line ends around the text are ignored.
 
-// parseAuto reads the automatic forms.
-func parseAuto(in string) (Stamp, error) {
+// parseAuto reads the automatic forms into st (which is left partly filled on error).
+func parseAuto(in string, st *Stamp) error {
 	s := trim(in)
 	if s == "" {
-		return Stamp{}, emptyErr(in, "timestamp")
+		return emptyErr(in, "timestamp")
 	}
-	var st Stamp
 	var i int
 	basic := false
 	switch {
@@ -29,7 +28,7 @@ func parseAuto(in string) (Stamp, error) {
 		m, ok2 := num2(s, 5)
 		d, ok3 := num2(s, 8)
 		if !ok1 || !ok2 || !ok3 {
-			return Stamp{}, syntaxErr(in, hintTimestamp)
+			return syntaxErr(in, hintTimestamp)
 		}
 		st.Year, st.Month, st.Day = y, monthOf(m), d
 		i = 10
@@ -38,47 +37,54 @@ func parseAuto(in string) (Stamp, error) {
 		m, ok2 := num2(s, 4)
 		d, ok3 := num2(s, 6)
 		if !ok1 || !ok2 || !ok3 {
-			return Stamp{}, syntaxErr(in, hintTimestamp)
+			return syntaxErr(in, hintTimestamp)
 		}
 		st.Year, st.Month, st.Day = y, monthOf(m), d
 		i = 8
 		basic = true
 	default:
-		return Stamp{}, syntaxErr(in, hintTimestamp)
+		return syntaxErr(in, hintTimestamp)
 	}
 	if i == len(s) {
 		if r := dateReason(st.Year, int(st.Month), st.Day); r != "" {
-			return Stamp{}, &Error{Input: in, Reason: r, Err: ErrRange}
+			return &Error{Input: in, Reason: r, Err: ErrRange}
 		}
-		return Stamp{}, &Error{Input: in, Err: ErrDateOnly,
+		return &Error{Input: in, Err: ErrDateOnly,
 			Reason: "a date alone is not a timestamp; expected a time of day too (2024-06-21 18:30), or use --date COL --time COL"}
 	}
 	if c := s[i]; c != 'T' && c != 't' && (c != ' ' || basic) {
-		return Stamp{}, syntaxErr(in, hintTimestamp)
+		return syntaxErr(in, hintTimestamp)
 	}
 	i++
 	var ok bool
 	if basic {
-		i, ok = clockBasic(s, i, &st)
+		i, ok = clockBasic(s, i, st)
 	} else {
-		i, ok = clockExtended(s, i, &st)
+		i, ok = clockExtended(s, i, st)
 	}
 	if !ok {
-		return Stamp{}, syntaxErr(in, hintTimestamp)
+		return syntaxErr(in, hintTimestamp)
 	}
 	if i < len(s) {
 		var err error
-		if i, err = zoneSuffix(in, s, i, &st); err != nil {
-			return Stamp{}, err
+		if i, err = zoneSuffix(in, s, i, st); err != nil {
+			return err
 		}
 	}
 	if i != len(s) {
-		return Stamp{}, syntaxErr(in, hintTimestamp)
+		return syntaxErr(in, hintTimestamp)
 	}
-	if err := validate(in, &st); err != nil {
-		return Stamp{}, err
+	if !plausible(st) {
+		return validate(in, st)
 	}
-	return st, nil
+	return nil
+}
+
+// plausible is the quick check that the fields of a parsed stamp are in range (validate says which
+// one is not). Fields read from digits are never negative.
+func plausible(st *Stamp) bool {
+	return st.Year >= 1 && st.Month >= 1 && st.Month <= 12 && st.Day >= 1 &&
+		(st.Day <= 28 || st.Day <= daysIn(st.Year, int(st.Month))) && st.Hour < 24 && st.Minute < 60 && st.Second < 60
 }
 
 // clockExtended reads HH:MM[:SS[frac]] at s[i:].

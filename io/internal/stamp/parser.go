@@ -141,7 +141,11 @@ func (p *Parser) Parse(s string) (Stamp, error) {
 	case p.epoch != 0:
 		return parseEpoch(s, p.epoch, p.opts.Epoch)
 	case p.opts.Layout == "":
-		return parseAuto(s)
+		var st Stamp
+		if err := parseAuto(s, &st); err != nil {
+			return Stamp{}, err
+		}
+		return st, nil
 	case p.full == nil:
 		return Stamp{}, p.fullErr
 	}
