@@ -302,8 +302,10 @@ func TestRowErrors(t *testing.T) {
 			`[{"lat": 1, "lon": 2, "d": "2024-06-21", "c": null}]`, enrich.Select{Date: "d", Time: "c", TZ: "UTC"}, "d+c", stamp.ErrEmpty, false},
 		{"null epoch", []arrow.Field{fld("t", arrow.PrimitiveTypes.Int64)},
 			`[{"lat": 1, "lon": 2, "t": null}]`, enrich.Select{Time: "t", Epoch: "s"}, "t", stamp.ErrEmpty, false},
-		{"empty zone in --tz-column stops the run", []arrow.Field{fld("timestamp", tsLocal), fld("tz", str)},
-			`[{"lat": 1, "lon": 2, "timestamp": "2024-03-10T12:30:00", "tz": ""}]`, enrich.Select{TZColumn: "tz"}, "tz", zone.ErrNoTimeZone, true},
+		{"empty zone in --tz-column", []arrow.Field{fld("timestamp", tsLocal), fld("tz", str)},
+			`[{"lat": 1, "lon": 2, "timestamp": "2024-03-10T12:30:00", "tz": ""}]`, enrich.Select{TZColumn: "tz"}, "tz", zone.ErrUnknownZone, false},
+		{"null zone in --tz-column", []arrow.Field{fld("timestamp", tsLocal), fld("tz", str)},
+			`[{"lat": 1, "lon": 2, "timestamp": "2024-03-10T12:30:00", "tz": null}]`, enrich.Select{TZColumn: "tz"}, "tz", zone.ErrUnknownZone, false},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {

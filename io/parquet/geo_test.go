@@ -22,7 +22,7 @@ const geoWKB = `{"version":"1.1.0","primary_column":"geometry","columns":{"geome
 
 // wkbGeoFile writes a GeoParquet file whose rows hold the given WKB values
 // (nil for null) and a timestamp each.
-func wkbGeoFile(t *testing.T, geo string, values [][]byte) []byte {
+func wkbGeoFile(t testing.TB, geo string, values [][]byte) []byte {
 	t.Helper()
 	mem := memory.NewGoAllocator()
 	sc := arrow.NewSchema([]arrow.Field{
@@ -50,7 +50,7 @@ func wkbGeoFile(t *testing.T, geo string, values [][]byte) []byte {
 	return writeRecords(t, sc, fileSpec{}, rec)
 }
 
-func mustWKB(t *testing.T, g orb.Geometry, order binary.ByteOrder) []byte {
+func mustWKB(t testing.TB, g orb.Geometry, order binary.ByteOrder) []byte {
 	t.Helper()
 	b, err := wkb.Marshal(g, order)
 	if err != nil {
