@@ -23,7 +23,7 @@ type Phase uint8
 // exactly −18° astronomical twilight.
 const (
 	PhaseUnknown        Phase = iota // not computed (invalid input)
-	Day                              // geometric altitude above SunriseAltitude
+	Daytime                          // geometric altitude above SunriseAltitude (the phase "day")
 	MorningCivil                     // SunriseAltitude down to CivilTwilightAltitude, before the meridian
 	EveningCivil                     // SunriseAltitude down to CivilTwilightAltitude, after the meridian
 	MorningNautical                  // below CivilTwilightAltitude down to NauticalTwilightAltitude, morning
@@ -51,7 +51,7 @@ func (p Phase) String() string {
 // phaseByLevel maps (depth level 0…4, evening 0/1) to the phase; level counts the thresholds at or above the
 // altitude (SunriseAltitude inclusive, the twilight limits exclusive).
 var phaseByLevel = [5][2]Phase{
-	{Day, Day},
+	{Daytime, Daytime},
 	{MorningCivil, EveningCivil},
 	{MorningNautical, EveningNautical},
 	{MorningAstronomical, EveningAstronomical},
@@ -93,7 +93,7 @@ type Condition uint8
 // The light conditions.
 const (
 	ConditionUnknown Condition = iota // not computed
-	Daylight                          // the Day phase
+	Daylight                          // the Daytime phase
 	Dawn                              // morning civil twilight
 	Dusk                              // evening civil twilight
 	Dark                              // nautical or astronomical twilight, or night
@@ -111,7 +111,7 @@ func (c Condition) String() string {
 
 var conditionOfPhase = [NumPhases]Condition{ConditionUnknown, Daylight, Dawn, Dusk, Dark, Dark, Dark, Dark, Dark}
 
-// Condition returns the light condition of a phase: Day is Daylight, civil twilight is Dawn (morning) or Dusk
+// Condition returns the light condition of a phase: Daytime is Daylight, civil twilight is Dawn (morning) or Dusk
 // (evening), deeper twilight and night are Dark, PhaseUnknown is ConditionUnknown.
 func (p Phase) Condition() Condition {
 	if int(p) < len(conditionOfPhase) {

@@ -20,11 +20,11 @@ func TestPhaseOf(t *testing.T) {
 		want     Phase
 		wantCond Condition
 	}{
-		{"zenith", 90, 0, Day, Daylight},
-		{"high morning", 30, am, Day, Daylight},
-		{"just above sunrise altitude", above(SunriseAltitude), am, Day, Daylight},
-		{"horizon 0°", 0, pm, Day, Daylight},
-		{"−0.833° (PRODUCT.md's rounding) is still day", -0.833, pm, Day, Daylight},
+		{"zenith", 90, 0, Daytime, Daylight},
+		{"high morning", 30, am, Daytime, Daylight},
+		{"just above sunrise altitude", above(SunriseAltitude), am, Daytime, Daylight},
+		{"horizon 0°", 0, pm, Daytime, Daylight},
+		{"−0.833° (PRODUCT.md's rounding) is still day", -0.833, pm, Daytime, Daylight},
 		{"at sunrise altitude, morning", SunriseAltitude, am, MorningCivil, Dawn},
 		{"at sunset altitude, evening", SunriseAltitude, pm, EveningCivil, Dusk},
 		{"−3° morning", -3, am, MorningCivil, Dawn},
@@ -69,7 +69,7 @@ func TestPhaseStrings(t *testing.T) {
 		cond string
 	}{
 		{PhaseUnknown, "", ""},
-		{Day, "day", "daylight"},
+		{Daytime, "day", "daylight"},
 		{MorningCivil, "morning_civil", "dawn"},
 		{EveningCivil, "evening_civil", "dusk"},
 		{MorningNautical, "morning_nautical", "dark"},
