@@ -64,6 +64,7 @@ type Kernel struct {
 	exact         cell    // one instant's values, for rows too spread for the grid
 	exactRows     int     // rows evaluated exactly since the kernel was made
 	scratch       scratch
+	days          dayCache // Days computed by Kernel.Day (see events.go)
 }
 
 // NewKernel returns a kernel for the given options (see [Options]; validate them first with
