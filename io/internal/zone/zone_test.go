@@ -554,3 +554,40 @@ func TestPeriodEnd(t *testing.T) {
 		}
 	}
 }
+
+// TestAgreesWithTimeDate compares Resolve with the standard library's time.Date on random local
+// times in many zones: where the time happened once they must agree; in an overlap time.Date's
+// choice must be one of the two instants.
+func TestAgreesWithTimeDate(t *testing.T) {
+	names := zoneNames(t)
+	rng := rand.New(rand.NewPCG(21, 22))
+	resolvers := map[string]*Resolver{}
+	for i := 0; i < 20000; i++ {
+		name := names[rng.IntN(len(names))]
+		r := resolvers[name]
+		if r == nil {
+			r = fixed(t, name)
+			resolvers[name] = r
+		}
+		s, _ := stamp.FromUnix(rng.Int64N(7258118400)-2208988800, rng.Int64N(1e9)) // 1900..2200
+		s.HasOffset = false
+		inst, _, note, err := r.Resolve(s, "", 0, 0)
+		if errors.Is(err, ErrNonexistent) {
+			continue
+		}
+		if err != nil {
+			t.Fatalf("%s %v: %v", name, s, err)
+		}
+		loc := r.fixed.loc
+		td := time.Date(s.Year, s.Month, s.Day, s.Hour, s.Minute, s.Second, s.Nanosecond, loc)
+		if note == "" && !td.Equal(inst) {
+			t.Fatalf("%s %v: Resolve %v, time.Date %v", name, s, inst, td.UTC())
+		}
+		if note == NoteAmbiguous {
+			_, o1 := inst.In(loc).Zone()
+			if !td.Equal(inst) && td.Sub(inst) <= 0 {
+				t.Fatalf("%s %v: ambiguous: Resolve %v (offset %d) is not the earlier of it and time.Date's %v", name, s, inst, o1, td.UTC())
+			}
+		}
+	}
+}
