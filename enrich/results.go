@@ -17,6 +17,11 @@ type Results struct {
 	Altitude, Azimuth []float64
 	Phase             []solar.Phase
 
+	// Day holds the events of the row's local date (events and relative groups).
+	Day []solar.Day
+	// FromRise, FromSet (minutes) and SunTime (hours); NaN when undefined.
+	FromRise, FromSet, SunTime []float64
+
 	// Zone is the row's date zone (from Inputs) for writing instants.
 	Zone []*time.Location
 	Note []string
@@ -28,6 +33,12 @@ func (r *Results) reset(n int) {
 	r.Altitude = resize(r.Altitude, n)
 	r.Azimuth = resize(r.Azimuth, n)
 	r.Phase = resize(r.Phase, n)
+	if r.Plan != nil && (r.Plan.Has(GroupEvents) || r.Plan.Has(GroupRelative)) {
+		r.Day = resize(r.Day, n)
+		r.FromRise = resize(r.FromRise, n)
+		r.FromSet = resize(r.FromSet, n)
+		r.SunTime = resize(r.SunTime, n)
+	}
 	r.Zone = resize(r.Zone, n)
 	r.Note = resize(r.Note, n)
 }
@@ -46,6 +57,16 @@ func (r *Results) Float(f Field, i int) (v float64, ok bool) {
 		v = r.Altitude[i]
 	case FieldAzimuth:
 		v = r.Azimuth[i]
+	case FieldDayLength:
+		v = r.Day[i].DayLength
+	case FieldNoonAltitude:
+		v = r.Day[i].NoonAltitude
+	case FieldMinutesFromRise:
+		v = r.FromRise[i]
+	case FieldMinutesFromSet:
+		v = r.FromSet[i]
+	case FieldSunTime:
+		v = r.SunTime[i]
 	default:
 		return 0, false
 	}
@@ -90,5 +111,32 @@ func (r *Results) Text(f Field, i int) string {
 // Instant returns a KindInstant value of row i in the row's date zone (UTC
 // when the row has none); ok is false when empty.
 func (r *Results) Instant(f Field, i int) (t time.Time, ok bool) {
-	return time.Time{}, false
+	if r.Status[i] != RowOK {
+		return time.Time{}, false
+	}
+	d := &r.Day[i]
+	var sec float64
+	switch f {
+	case FieldRise:
+		sec = d.Rise
+	case FieldSet:
+		sec = d.Set
+	case FieldNoon:
+		sec = d.Noon
+	case FieldCivilDawn:
+		sec = d.CivilDawn
+	case FieldCivilDusk:
+		sec = d.CivilDusk
+	case FieldNauticalDawn:
+		sec = d.NauticalDawn
+	case FieldNauticalDusk:
+		sec = d.NauticalDusk
+	case FieldAstronomicalDawn:
+		sec = d.AstronomicalDawn
+	case FieldAstronomicalDusk:
+		sec = d.AstronomicalDusk
+	default:
+		return time.Time{}, false
+	}
+	return instant(sec, r.Zone[i])
 }

@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"runtime"
 	"strconv"
 	"sync"
@@ -105,9 +106,11 @@ func Run(ctx context.Context, src Source, sink Sink, o Options) (Summary, error)
 		rows = DefaultBatchRows
 	}
 
-	kernels := make(chan *solar.Kernel, workers)
+	// Per-worker computing state: a worker takes one for a batch and puts
+	// it back, so each state (and its caches) serves one goroutine at a time.
+	states := make(chan *worker, workers)
 	for range workers {
-		kernels <- solar.NewKernel(o.Solar)
+		states <- newWorker(o.Solar)
 	}
 	inputs := sync.Pool{New: func() any { return new(Inputs) }}
 	results := sync.Pool{New: func() any { return new(Results) }}
@@ -164,19 +167,32 @@ func Run(ctx context.Context, src Source, sink Sink, o Options) (Summary, error)
 
 		in.unix = resize(in.unix, n)
 		unix := in.unix
-		var last float64
+		good := math.NaN()
 		for i := range n {
 			if in.Err[i] == nil {
 				u := unixSeconds(in.Time[i])
 				if err := solar.Check(u, in.Lat[i], in.Lon[i]); err != nil {
 					in.Err[i] = &RowError{Column: roles.columnFor(err), Err: err}
 				} else {
-					unix[i], last = u, u
+					unix[i] = u
+					if math.IsNaN(good) {
+						good = u
+					}
 					continue
 				}
 			}
-			// A bad row is computed on harmless values and its result ignored.
-			unix[i], in.Lat[i], in.Lon[i] = last, 0, 0
+			unix[i] = math.NaN()
+		}
+		if math.IsNaN(good) {
+			good = 0
+		}
+		for i := range n {
+			if math.IsNaN(unix[i]) {
+				// A bad row is computed on harmless values (a good row's
+				// instant, so the kernel's grid is not stretched) and its
+				// result ignored.
+				unix[i], in.Lat[i], in.Lon[i] = good, 0, 0
+			}
 		}
 		for i := range n {
 			if err := in.Err[i]; err != nil {
@@ -198,17 +214,20 @@ func Run(ctx context.Context, src Source, sink Sink, o Options) (Summary, error)
 			}
 		}
 
-		if o.Plan.Has(GroupPosition) || o.Plan.Has(GroupPhase) {
-			var k *solar.Kernel
-			select {
-			case k = <-kernels:
-			case <-ctx.Done():
-				return b, context.Cause(ctx)
-			}
-			out := solar.Positions{Altitude: res.Altitude, Azimuth: res.Azimuth, Phase: res.Phase}
-			k.Positions(unix, in.Lat, in.Lon, &out)
-			kernels <- k
+		var w *worker
+		select {
+		case w = <-states:
+		case <-ctx.Done():
+			return b, context.Cause(ctx)
 		}
+		if o.Plan.Has(GroupPosition) || o.Plan.Has(GroupPhase) {
+			out := solar.Positions{Altitude: res.Altitude, Azimuth: res.Azimuth, Phase: res.Phase}
+			w.kernel.Positions(unix, in.Lat, in.Lon, &out)
+		}
+		if o.Plan.Has(GroupEvents) || o.Plan.Has(GroupRelative) {
+			w.days(in, unix, res)
+		}
+		states <- w
 
 		if err := b.chunk.Encode(res); err != nil {
 			return b, err

@@ -4,11 +4,13 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
@@ -123,5 +125,63 @@ func TestUsageErrors(t *testing.T) {
 			assert.Equal(t, 2, code)
 			assert.Contains(t, stderr.String(), c.msg)
 		})
+	}
+}
+
+// TestPublishedEventsThroughCLI: rise, set and twilight times from published
+// tables come out of the whole command (events group), within the tables'
+// one-minute printing plus the output's rounding to the second.
+func TestPublishedEventsThroughCLI(t *testing.T) {
+	type check struct {
+		column string
+		want   string // local clock time hh:mm as printed in the source
+	}
+	cases := []struct {
+		source    string
+		lat, lon  float64
+		timestamp string // noon of the date, with the table's UTC offset
+		checks    []check
+	}{
+		// USNO sun rise/set table, San Francisco (W122°26′, N37°46′), PST (UTC−8), 2012
+		// (REFERENCE-VALUES.md §4).
+		{"USNO SF 2012-01-01", 37 + 46.0/60, -(122 + 26.0/60), "2012-01-01T12:00:00-08:00", []check{{"sun_rise", "07:25"}, {"sun_set", "17:01"}}},
+		{"USNO SF 2012-03-20", 37 + 46.0/60, -(122 + 26.0/60), "2012-03-20T12:00:00-08:00", []check{{"sun_rise", "06:12"}, {"sun_set", "18:22"}}},
+		{"USNO SF 2012-06-21", 37 + 46.0/60, -(122 + 26.0/60), "2012-06-21T12:00:00-08:00", []check{{"sun_rise", "04:48"}, {"sun_set", "19:35"}}},
+		{"USNO SF 2012-09-22", 37 + 46.0/60, -(122 + 26.0/60), "2012-09-22T12:00:00-08:00", []check{{"sun_rise", "05:58"}, {"sun_set", "18:06"}}},
+		{"USNO SF 2012-12-21", 37 + 46.0/60, -(122 + 26.0/60), "2012-12-21T12:00:00-08:00", []check{{"sun_rise", "07:22"}, {"sun_set", "16:55"}}},
+		// USNO twilight tables, 2024-06-21, EST (UTC−5) (REFERENCE-VALUES.md §4).
+		{"USNO Boston civil", 42.32, -71.09, "2024-06-21T12:00:00-05:00", []check{{"sun_civil_dawn", "03:33"}, {"sun_civil_dusk", "19:59"}}},
+		{"USNO Hartford nautical/astronomical", 41.76, -72.69, "2024-06-21T12:00:00-05:00", []check{
+			{"sun_nautical_dawn", "02:58"}, {"sun_nautical_dusk", "20:48"},
+			{"sun_astronomical_dawn", "02:05"}, {"sun_astronomical_dusk", "21:41"}}},
+		// Astronomical Almanac rise/set at longitude 0°, UT, as quoted in NREL/TP-560-34302
+		// Table A2.1 (REFERENCE-VALUES.md §1).
+		{"AA 1994-01-02 35N", 35, 0, "1994-01-02T12:00:00Z", []check{{"sun_rise", "07:08"}, {"sun_set", "17:00"}}},
+		{"AA 2004-12-04 35S", -35, 0, "2004-12-04T12:00:00Z", []check{{"sun_rise", "04:39"}, {"sun_set", "19:02"}}},
+	}
+	dir := t.TempDir()
+	var b strings.Builder
+	b.WriteString("case,lat,lon,timestamp\n")
+	for i, c := range cases {
+		fmt.Fprintf(&b, "%d,%.6f,%.6f,%s\n", i, c.lat, c.lon, c.timestamp)
+	}
+	in := filepath.Join(dir, "published.csv")
+	require.NoError(t, os.WriteFile(in, []byte(b.String()), 0o644))
+	out := filepath.Join(dir, "out.csv")
+	var stdout, stderr bytes.Buffer
+	code := run(context.Background(), []string{"enrich", in, "--add", "events", "-o", out}, nil, &stdout, &stderr)
+	require.Equal(t, 0, code, stderr.String())
+	rows := readCSV(t, out)
+	require.Len(t, rows, len(cases)+1)
+	for i, c := range cases {
+		for _, ch := range c.checks {
+			got := rows[i+1][indexOf(t, rows[0], ch.column)]
+			tm, err := time.Parse(time.RFC3339, got)
+			require.NoError(t, err, "%s %s: %q", c.source, ch.column, got)
+			want, err := time.Parse("2006-01-02 15:04 -07:00", c.timestamp[:10]+" "+ch.want+" "+tm.Format("-07:00"))
+			require.NoError(t, err)
+			// The table rounds to the minute: ±1 min, as the reference file says.
+			assert.InDelta(t, 0, tm.Sub(want).Seconds(), 60, "%s %s: got %s, published %s", c.source, ch.column, got, ch.want)
+		}
 	}
 }
