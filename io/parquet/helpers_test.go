@@ -3,6 +3,7 @@ package parquet
 import (
 	"bytes"
 	"context"
+	"flag"
 	"strings"
 	"testing"
 
@@ -175,3 +176,7 @@ func column(t testing.TB, tbl arrow.Table, name string, mem memory.Allocator) ar
 	}
 	return a
 }
+
+// updateSeeds rewrites the fuzz seed corpus files that tests make
+// (go test ./io/parquet -run Damaged -update-seeds).
+var updateSeeds = flag.Bool("update-seeds", false, "rewrite the fuzz seed files made by tests")

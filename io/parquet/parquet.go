@@ -127,6 +127,11 @@ func NewReader(r ReaderAtSeeker, o Options) (rd *Reader, err error) {
 			pf.Close()
 		}
 	}()
+	if v := pf.MetaData().KeyValueMetadata().FindValue("ARROW:schema"); v != nil {
+		if err := checkStoredSchema(*v); err != nil {
+			return nil, fmt.Errorf("%w: %w", ErrFile, err)
+		}
+	}
 	// BatchSize is set again, to Next's max, before the record reader is made.
 	rd.fr, err = pqarrow.NewFileReader(pf, pqarrow.ArrowReadProperties{BatchSize: enrich.DefaultBatchRows}, mem)
 	if err != nil {
