@@ -254,11 +254,7 @@ func (c *chunk) Encode(res *enrich.Results) error {
 	need := len(c.buf) + c.Len()*(8+32*len(cols))
 	b := c.out[:0]
 	if b == nil {
-		if p, ok := c.rd.bufs.Get().(*[]byte); ok && cap(*p) >= need/2 {
-			b = (*p)[:0]
-		} else {
-			b = make([]byte, 0, need)
-		}
+		b = make([]byte, 0, need)
 	}
 	c.nout = 0
 	// With no added columns (a passthrough) Extract has not run: every

@@ -8,7 +8,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"sync"
 
 	"github.com/heliotag/heliotag/enrich"
 	"github.com/heliotag/heliotag/io/internal/fields"
@@ -46,13 +45,13 @@ type Reader struct {
 
 	// text sequence
 	br        *bufio.Reader
-	rs        bool      // records are split by RS rather than by line ends
-	outRS     bool      // the writer frames records with RS (set by NewWriter)
-	added     [][]byte  // the added columns' names as JSON strings (set by NewWriter)
-	bufs      sync.Pool // *[]byte: chunk input and output buffers, back from the writer
-	off       int64     // bytes consumed
-	line      int64     // line ends consumed
-	lineStart int64     // offset where the current line starts
+	rs        bool        // records are split by RS rather than by line ends
+	outRS     bool        // the writer frames records with RS (set by NewWriter)
+	added     [][]byte    // the added columns' names as JSON strings (set by NewWriter)
+	free      chan *chunk // written chunks, for reuse (see recycle)
+	off       int64       // bytes consumed
+	line      int64       // line ends consumed
+	lineStart int64       // offset where the current line starts
 	eof       bool
 }
 
@@ -81,7 +80,8 @@ func NewReader(r io.Reader, size int64, o Options) (*Reader, error) {
 	if s.Lat != "" || s.Lon != "" || s.Geometry != "" {
 		return nil, fmt.Errorf("%w: GeoJSON takes the location from each feature's geometry; --lat, --lon and --geometry do not apply", enrich.ErrUsage)
 	}
-	rd := &Reader{seq: o.Sequence, cr: newCountReader(r), size: size, colIndex: map[string]int{}}
+	rd := &Reader{seq: o.Sequence, cr: newCountReader(r), size: size, colIndex: map[string]int{},
+		free: make(chan *chunk, freeChunks)}
 	if rd.seq {
 		rd.br = bufio.NewReaderSize(rd.cr, 1<<20)
 		if b, err := rd.br.Peek(1); err == nil && b[0] == 0x1E {
@@ -190,20 +190,13 @@ func (rd *Reader) Next(ctx context.Context, max int) (enrich.Chunk, error) {
 	if err := ctx.Err(); err != nil {
 		return nil, context.Cause(ctx)
 	}
-	c := &chunk{rd: rd, first: rd.count}
+	c := rd.newChunk(max)
 	for c.Len() < max && len(rd.pending) > 0 {
 		f := rd.pending[0]
 		rd.pending[0] = rawFeature{}
 		rd.pending = rd.pending[1:]
 		c.buf = append(c.buf, f.b...)
 		c.add(f.off, f.line, f.col)
-	}
-	if c.Len() < max && c.buf == nil {
-		if b, ok := rd.bufs.Get().(*[]byte); ok && cap(*b) >= 64*max {
-			c.buf = (*b)[:0]
-		} else {
-			c.buf = make([]byte, 0, 160*max)
-		}
 	}
 	for c.Len() < max {
 		var off, line, col int64
@@ -497,4 +490,42 @@ func (rd *Reader) readRecord(dst []byte) ([]byte, int64, int64, int64, error) {
 		return dst[:start+n], off, line, col, nil
 	}
 	return dst, 0, 0, 0, io.EOF
+}
+
+// freeChunks is how many written chunks a reader keeps for reuse: more than
+// the batches in flight in a run with a few workers.
+const freeChunks = 8
+
+// maxReuseBytes: a chunk whose buffers grew larger (very large features) is
+// not kept.
+const maxReuseBytes = 16 << 20
+
+// newChunk returns an empty chunk for up to max features, reusing a written
+// one when there is one: its buffers and index slices keep their memory.
+func (rd *Reader) newChunk(max int) *chunk {
+	var c *chunk
+	select {
+	case c = <-rd.free:
+		*c = chunk{rd: rd, buf: c.buf[:0], ends: c.ends[:0], offs: c.offs[:0], lines: c.lines[:0],
+			cols: c.cols[:0], info: c.info[:0], out: c.out[:0]}
+	default:
+		c = &chunk{rd: rd, buf: make([]byte, 0, 160*max), ends: make([]int, 0, max),
+			offs: make([]int64, 0, max), lines: make([]int64, 0, max)}
+		if rd.seq {
+			c.cols = make([]int64, 0, max)
+		}
+	}
+	c.first = rd.count
+	return c
+}
+
+// recycle keeps a written chunk for reuse by newChunk.
+func (rd *Reader) recycle(c *chunk) {
+	if cap(c.buf) > maxReuseBytes || cap(c.out) > maxReuseBytes {
+		return
+	}
+	select {
+	case rd.free <- c:
+	default:
+	}
 }

@@ -70,14 +70,9 @@ func (w *Writer) Write(_ context.Context, ch enrich.Chunk) error {
 		_, err = w.w.Write(c.out)
 	}
 	w.written += int64(c.nout)
-	// The chunk is done with: its buffers serve later chunks.
-	for _, p := range []*[]byte{&c.out, &c.buf} {
-		if cap(*p) > 0 {
-			b := (*p)[:0]
-			w.rd.bufs.Put(&b)
-		}
-		*p = nil
-	}
+	// The chunk is done with (enrich does not touch it after Write): its
+	// memory serves a later chunk.
+	w.rd.recycle(c)
 	if err != nil {
 		return fmt.Errorf("writing output: %w", err)
 	}
