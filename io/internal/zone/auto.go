@@ -71,6 +71,9 @@ func newFinder() (f *finder, err error) {
 	if err != nil {
 		return nil, fmt.Errorf("zone: building the time zone finder: %w", err)
 	}
+	if pre.IdxZoom > maxIdxZoom {
+		return nil, fmt.Errorf("zone: bundled time zone tiles go to zoom %d; at most %d is supported", pre.IdxZoom, maxIdxZoom)
+	}
 	if poly.DataVersion() != pre.Version {
 		return nil, errors.New("zone: bundled time zone tiles (" + pre.Version + ") and boundaries (" + poly.DataVersion() + ") differ in version")
 	}
@@ -146,21 +149,27 @@ type exactEntry struct {
 	err      error
 }
 
-type gridEntry struct {
-	ilat, ilon int32
-	zi         *zoneInfo // nil: the cell is not inside one preindexed tile
+// Grid and tile entries are packed in one word, so that filling them allocates nothing: a set top
+// bit, the cell or tile, and the zone's id in the low 16 bits (0: the cell or tile is not inside one
+// preindexed tile, so its points are looked up one by one).
+const idMask = 1<<16 - 1
+
+// gridKey packs a grid cell (latitude and longitude cells offset to be non-negative: 15 bits each).
+func gridKey(ilat, ilon int32) uint64 {
+	return 1<<63 | uint64(ilat+90*gridPerDegree)<<31 | uint64(ilon+180*gridPerDegree)<<16
 }
 
-type tileEntry struct {
-	tile maptile.Tile
-	zi   *zoneInfo // nil: the tile is in no preindexed tile, so its points are looked up one by one
-}
+// tileKey packs a finest-zoom tile (X and Y below 2^21, see maxIdxZoom).
+func tileKey(t maptile.Tile) uint64 { return 1<<63 | uint64(t.X)<<37 | uint64(t.Y)<<16 }
+
+// maxIdxZoom is the finest preindex zoom tileKey can hold (X reaches 2^zoom at longitude 180).
+const maxIdxZoom = 20
 
 // autoCache holds a Resolver's Auto caches; slots are replaced atomically, so readers never lock.
 type autoCache struct {
 	exact [exactSlots]atomic.Pointer[exactEntry]
-	grid  [gridSlots]atomic.Pointer[gridEntry]
-	tiles [tileSlots]atomic.Pointer[tileEntry]
+	grid  [gridSlots]atomic.Uint64
+	tiles [tileSlots]atomic.Uint64
 }
 
 func newAutoCache() *autoCache { return &autoCache{} }
@@ -168,6 +177,23 @@ func newAutoCache() *autoCache { return &autoCache{} }
 func mix(a, b uint64) uint64 {
 	h := a*0x9E3779B97F4A7C15 ^ (b+0x632BE59BD9B4E019)*0xC2B2AE3D27D4EB4F
 	return h ^ h>>29 ^ h>>47
+}
+
+// probe looks key up in a two-way cache: it returns the entry (0 when absent) and the slot a new
+// entry for key should go to (slot h, or its neighbour h^1 when h holds another key).
+func probe(slots []atomic.Uint64, key uint64) (uint64, *atomic.Uint64) {
+	h := mix(key, 0) & uint64(len(slots)-1)
+	v := slots[h].Load()
+	if v&^idMask == key {
+		return v, nil
+	}
+	if v2 := slots[h^1].Load(); v2&^idMask == key {
+		return v2, nil
+	}
+	if v == 0 {
+		return 0, &slots[h]
+	}
+	return 0, &slots[h^1]
 }
 
 // cellZone returns the name of the preindexed tile holding the whole grid cell (ilat, ilon), or "".
@@ -194,22 +220,13 @@ func (r *Resolver) at(lat, lon float64) (*zoneInfo, error) {
 		return nil, &zoneError{"no time zone for coordinates lat " + strconv.FormatFloat(lat, 'g', -1, 64) + ", lon " +
 			strconv.FormatFloat(lon, 'g', -1, 64) + ": expected latitude in [-90, 90] and longitude in [-180, 180]", ErrNoZoneFound}
 	}
+	c := r.auto
 	ilat, ilon := int32(math.Floor(lat*gridPerDegree)), int32(math.Floor(lon*gridPerDegree))
-	// Two-way: a cell may sit in slot h or its neighbour h^1, so two cells that hash alike can both stay.
-	h := mix(uint64(uint32(ilat)), uint64(uint32(ilon))) & (gridSlots - 1)
-	gs := &r.auto.grid[h]
-	g := gs.Load()
-	if g == nil || g.ilat != ilat || g.ilon != ilon {
-		if g2 := r.auto.grid[h^1].Load(); g2 != nil && g2.ilat == ilat && g2.ilon == ilon {
-			g = g2
-		} else if g != nil {
-			gs = &r.auto.grid[h^1] // a miss replaces the neighbour, keeping slot h's entry
-		}
+	gv, gslot := probe(c.grid[:], gridKey(ilat, ilon))
+	if id := gv & idMask; id != 0 {
+		return (*r.byID.Load())[id], nil
 	}
-	if g != nil && g.ilat == ilat && g.ilon == ilon && g.zi != nil {
-		return g.zi, nil
-	}
-	ex := &r.auto.exact[mix(math.Float64bits(lat), math.Float64bits(lon))&(exactSlots-1)]
+	ex := &c.exact[mix(math.Float64bits(lat), math.Float64bits(lon))&(exactSlots-1)]
 	if e := ex.Load(); e != nil && e.lat == lat && e.lon == lon {
 		return e.zi, e.err
 	}
@@ -217,32 +234,36 @@ func (r *Resolver) at(lat, lon float64) (*zoneInfo, error) {
 	if err != nil {
 		return nil, err
 	}
-	if g == nil || g.ilat != ilat || g.ilon != ilon {
-		g = &gridEntry{ilat: ilat, ilon: ilon}
+	if gslot != nil { // a cell not seen yet
+		var zi *zoneInfo
 		if name := f.cellZone(ilat, ilon); name != "" {
-			if g.zi, err = r.named(name); err != nil {
+			if zi, err = r.named(name); err != nil {
 				return nil, err
 			}
 		}
-		gs.Store(g)
-		if g.zi != nil {
-			return g.zi, nil
+		if zi != nil {
+			gslot.Store(gridKey(ilat, ilon) | uint64(zi.id))
+			return zi, nil
 		}
+		gslot.Store(gridKey(ilat, ilon))
 	}
 	t := f.tileOf(lon, lat)
-	ts := &r.auto.tiles[mix(uint64(t.X)<<32|uint64(t.Y), uint64(t.Z))&(tileSlots-1)]
-	c := ts.Load()
-	if c == nil || c.tile != t {
-		c = &tileEntry{tile: t}
+	tv, tslot := probe(c.tiles[:], tileKey(t))
+	if id := tv & idMask; id != 0 {
+		return (*r.byID.Load())[id], nil
+	}
+	if tslot != nil { // a tile not seen yet
+		var zi *zoneInfo
 		if name := f.preindexed(t); name != "" {
-			if c.zi, err = r.named(name); err != nil {
+			if zi, err = r.named(name); err != nil {
 				return nil, err
 			}
 		}
-		ts.Store(c)
-	}
-	if c.zi != nil {
-		return c.zi, nil
+		if zi != nil {
+			tslot.Store(tileKey(t) | uint64(zi.id))
+			return zi, nil
+		}
+		tslot.Store(tileKey(t))
 	}
 	e := &exactEntry{lat: lat, lon: lon}
 	if name := f.outside(lon, lat); name == "" {

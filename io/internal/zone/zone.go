@@ -186,6 +186,7 @@ type zoneInfo struct {
 	name string
 	loc  *time.Location
 	tab  *table
+	id   uint16 // Auto: the zone's number in Resolver.byID (0: none), so caches can hold it in a word
 }
 
 func newZoneInfo(name string, loc *time.Location) *zoneInfo {
@@ -218,7 +219,8 @@ type Resolver struct {
 	namesMu sync.Mutex
 	bad     int
 
-	auto *autoCache // Auto only
+	auto *autoCache                  // Auto only
+	byID atomic.Pointer[[]*zoneInfo] // Auto: zones by id (index 0 unused), copy-on-write
 
 	offsets [2*maxOffsetMinutes + 1]atomic.Pointer[time.Location] // None: fixed zones by offset minute
 }
@@ -237,6 +239,8 @@ func NewResolver(o Options) (*Resolver, error) {
 		}
 		if o.Mode == Auto {
 			r.auto = newAutoCache()
+			ids := []*zoneInfo{nil}
+			r.byID.Store(&ids)
 		}
 	case Fixed:
 		loc, err := Load(o.Name)
@@ -408,6 +412,13 @@ func (r *Resolver) load(name string) (*zoneInfo, error) {
 		r.bad++
 	} else {
 		e.zi = newZoneInfo(loc.String(), loc)
+		if r.mode == Auto { // number the zone, publishing it before any cache can refer to it
+			if ids := *r.byID.Load(); len(ids) <= math.MaxUint16 {
+				e.zi.id = uint16(len(ids))
+				next := append(ids[:len(ids):len(ids)], e.zi)
+				r.byID.Store(&next)
+			}
+		}
 	}
 	m := make(map[string]*nameEntry, len(old)+1)
 	for k, v := range old {
