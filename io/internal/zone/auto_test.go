@@ -196,7 +196,7 @@ func TestAutoConcurrent(t *testing.T) {
 			defer wg.Done()
 			rng := rand.New(rand.NewPCG(uint64(g), 99))
 			for i := 0; i < 300; i++ {
-				lat, lon := 40+rng.Float64()*2, -75+rng.Float64()*2 // around New York: mostly one zone
+				lat, lon := 38+rng.Float64()*2, -87+rng.Float64()*2 // Indiana and Kentucky: many zones and borders
 				if _, dz, _, err := r.Resolve(s, "", lat, lon); err != nil || dz == nil {
 					t.Errorf("Resolve(%v, %v): %v %v", lat, lon, dz, err)
 					return
