@@ -198,3 +198,25 @@ func BenchmarkFinderBuild(b *testing.B) {
 	runtime.KeepAlive(f)
 	b.ReportMetric(float64(int64(after.HeapAlloc)-int64(before.HeapAlloc))/(1<<20), "heap-MiB")
 }
+
+// BenchmarkParseAndResolve is the per-row cost of time handling for a CSV of local times: parse the
+// text, then resolve it in a fixed zone.
+func BenchmarkParseAndResolve(b *testing.B) {
+	stamps := localStamps(rowsPerOp)
+	texts := make([]string, len(stamps))
+	for i, s := range stamps {
+		texts[i] = s.String()[:16] // 2024-03-10T02:30
+	}
+	p, _ := stamp.NewParser(stamp.Options{})
+	r, _ := NewResolver(Options{Mode: Fixed, Name: "America/New_York"})
+	b.ReportAllocs()
+	for b.Loop() {
+		for _, text := range texts {
+			s, err := p.Parse(text)
+			if err == nil {
+				_, _, _, _ = r.Resolve(s, "", 0, 0)
+			}
+		}
+	}
+	report(b)
+}
