@@ -69,18 +69,24 @@ func GeocentricAt(jd, deltaT float64) Geocentric {
 	g.Parallax = math.Asin(EarthRadius/g.Distance) * rad
 	g.ApparentLongitude = wrap360(g.Longitude + sun.NutationLongitude)
 
-	// Ecliptic to equatorial (Meeus eq. 13.3, 13.4) with the true obliquity.
-	sinEps, cosEps := math.Sincos(sun.Obliquity * deg)
-	sinLam, cosLam := math.Sincos(g.ApparentLongitude * deg)
-	sinBeta, cosBeta := math.Sincos(g.Latitude * deg)
-	g.RightAscension = wrap360(math.Atan2(sinLam*cosBeta*cosEps-sinBeta*sinEps, cosLam*cosBeta) * rad)
-	g.Declination = math.Asin(sinBeta*cosEps+cosBeta*sinEps*sinLam) * rad
+	g.RightAscension, g.Declination = equatorial(g.ApparentLongitude, g.Latitude, sun.Obliquity)
 
 	g.Elongation = wrap360(g.ApparentLongitude - sun.ApparentLongitude)
 	g.Separation, g.PhaseAngle = phaseAngle(g.RightAscension, g.Declination, g.Distance,
 		sun.RightAscension, sun.Declination, sun.Distance*AstronomicalUnit)
 	g.Illumination = (1 + math.Cos(g.PhaseAngle*deg)) / 2
 	return g
+}
+
+// equatorial converts ecliptic longitude lam and latitude beta to right ascension, [0, 360), and declination
+// for the obliquity eps, all in degrees (Meeus eq. 13.3, 13.4).
+func equatorial(lam, beta, eps float64) (ra, dec float64) {
+	sinEps, cosEps := math.Sincos(eps * deg)
+	sinLam, cosLam := math.Sincos(lam * deg)
+	sinBeta, cosBeta := math.Sincos(beta * deg)
+	ra = wrap360(math.Atan2(sinLam*cosBeta*cosEps-sinBeta*sinEps, cosLam*cosBeta) * rad)
+	dec = math.Asin(sinBeta*cosEps+cosBeta*sinEps*sinLam) * rad
+	return ra, dec
 }
 
 // phaseAngle returns the geocentric elongation ψ of the Moon from the Sun and the Moon's phase angle i, in

@@ -79,7 +79,7 @@ func (g Geocentric) Topocentric(lat, lon float64, o Options) Pos {
 	h := wrap360(g.Sun.SiderealTime + lon - g.RightAscension) // geocentric local hour angle
 
 	// Parallax in right ascension and declination (Meeus eq. 40.2, 40.3) with the observer's geocentric
-	// coordinates ρ sin φ′, ρ cos φ′ (Meeus eq. 11.x; NREL/TP-560-34302 Eq. 38–40).
+	// coordinates ρ sin φ′, ρ cos φ′ (Meeus chapter 11; NREL/TP-560-34302 Eq. 38–40).
 	sinPi := EarthRadius / g.Distance
 	phi := lat * deg
 	sinPhi, cosPhi := math.Sincos(phi)
