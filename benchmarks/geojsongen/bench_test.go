@@ -10,8 +10,11 @@ package main
 // writer with no sun columns: a plain decode and encode of the same file)
 // and a naive baseline that decodes every feature into orb's
 // geojson.Feature and encodes it again with encoding/json. Each reports
-// features/s and the peak resident memory of the run (VmHWM, reset before
-// the run through /proc/self/clear_refs; it includes the test binary).
+// features/s, the CPU time per feature (user + system, all goroutines: on a
+// shared machine it shows the work done where wall time shows the share of
+// the cores the run got) and the peak resident memory of the run (VmHWM,
+// reset before the run through /proc/self/clear_refs; it includes the test
+// binary).
 
 import (
 	"bufio"
@@ -24,7 +27,9 @@ import (
 	"strconv"
 	"strings"
 	"sync"
+	"syscall"
 	"testing"
+	"time"
 
 	ogeojson "github.com/paulmach/orb/geojson"
 
@@ -86,6 +91,16 @@ func peakMiB() float64 {
 		}
 	}
 	return 0
+}
+
+// cpuSeconds returns the process's user and system CPU time so far: on a
+// shared machine it shows the work done, which wall time does not.
+func cpuSeconds() float64 {
+	var ru syscall.Rusage
+	if err := syscall.Getrusage(syscall.RUSAGE_SELF, &ru); err != nil {
+		return 0
+	}
+	return time.Duration(ru.Utime.Nano() + ru.Stime.Nano()).Seconds()
 }
 
 // countWriter counts what is written to it and drops it.
@@ -194,12 +209,15 @@ func BenchmarkGeoJSON1M(b *testing.B) {
 			b.SetBytes(st.Size())
 			var peak float64
 			var outBytes int64
+			cpu0 := cpuSeconds()
 			for b.Loop() {
 				resetPeak()
 				outBytes = c.f()
 				peak = max(peak, peakMiB())
 			}
+			cpu := cpuSeconds() - cpu0
 			b.ReportMetric(float64(benchFeatures*b.N)/b.Elapsed().Seconds(), "features/s")
+			b.ReportMetric(cpu/float64(benchFeatures*b.N)*1e6, "CPU-µs/feature")
 			b.ReportMetric(peak, "peak-RSS-MiB")
 			b.ReportMetric(float64(outBytes)/1e6, "out-MB")
 		})
