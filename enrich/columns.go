@@ -123,7 +123,7 @@ var columnDefs = []columnDef{
 
 // Groups that this build can compute. A group in the contract but not here is
 // refused with a message that says so.
-var supportedGroups = []Group{GroupPosition, GroupPhase, GroupEvents, GroupRelative}
+var supportedGroups = []Group{GroupPosition, GroupPhase, GroupEvents, GroupRelative, GroupGlare}
 
 // PlanOptions selects the added columns.
 type PlanOptions struct {
@@ -137,6 +137,9 @@ type PlanOptions struct {
 	ErrorColumn bool
 	// Input is the input's column names; an added name that already exists is an error.
 	Input []string
+	// Heading says a heading is given (--heading or --heading-from-geometry),
+	// which the glare group needs; "all" includes glare only then.
+	Heading bool
 }
 
 // Plan is the ordered list of added columns. The plan for --add none has no
@@ -180,7 +183,11 @@ func NewPlan(o PlanOptions) (*Plan, error) {
 		return &Plan{}, nil
 	}
 	if add == "all" {
-		groups = slices.Clone(supportedGroups)
+		for _, g := range supportedGroups {
+			if g != GroupGlare || o.Heading {
+				groups = append(groups, g)
+			}
+		}
 	} else {
 		for _, part := range strings.Split(add, ",") {
 			g := Group(strings.ToLower(strings.TrimSpace(part)))
@@ -199,6 +206,9 @@ func NewPlan(o PlanOptions) (*Plan, error) {
 			}
 			if !slices.Contains(supportedGroups, g) {
 				return nil, fmt.Errorf("%w: column group %q is not available in this version; available: %s", ErrUsage, g, joinGroups(supportedGroups))
+			}
+			if g == GroupGlare && !o.Heading {
+				return nil, fmt.Errorf("%w: the glare group needs the direction of travel or view: --heading COL (degrees or N, NE, ..., NB, SB, EB, WB) or --heading-from-geometry", ErrUsage)
 			}
 			if !slices.Contains(groups, g) {
 				groups = append(groups, g)

@@ -17,6 +17,10 @@ type Results struct {
 	Altitude, Azimuth []float64
 	Phase             []solar.Phase
 
+	// RelAz (degrees) and Glare: the sun relative to the row's heading.
+	RelAz []float64
+	Glare []Glare
+
 	// Day holds the events of the row's local date (events and relative groups).
 	Day []solar.Day
 	// FromRise, FromSet (minutes) and SunTime (hours); NaN when undefined.
@@ -33,6 +37,10 @@ func (r *Results) reset(n int) {
 	r.Altitude = resize(r.Altitude, n)
 	r.Azimuth = resize(r.Azimuth, n)
 	r.Phase = resize(r.Phase, n)
+	if r.Plan != nil && r.Plan.Has(GroupGlare) {
+		r.RelAz = resize(r.RelAz, n)
+		r.Glare = resize(r.Glare, n)
+	}
 	if r.Plan != nil && (r.Plan.Has(GroupEvents) || r.Plan.Has(GroupRelative)) {
 		r.Day = resize(r.Day, n)
 		r.FromRise = resize(r.FromRise, n)
@@ -57,6 +65,8 @@ func (r *Results) Float(f Field, i int) (v float64, ok bool) {
 		v = r.Altitude[i]
 	case FieldAzimuth:
 		v = r.Azimuth[i]
+	case FieldRelativeAzimuth:
+		v = r.RelAz[i]
 	case FieldDayLength:
 		v = r.Day[i].DayLength
 	case FieldNoonAltitude:
@@ -86,6 +96,8 @@ func (r *Results) Word(f Field, i int) string {
 		return r.Phase[i].String()
 	case FieldCondition:
 		return r.Phase[i].Condition().String()
+	case FieldGlare:
+		return r.Glare[i].String()
 	}
 	return ""
 }

@@ -46,6 +46,17 @@ func ParsePolicy(s string) (Policy, error) {
 	return 0, fmt.Errorf("%w: --on-bad-row %q; valid: fail, skip, keep", ErrUsage, s)
 }
 
+// badStatus is what the policy does with a bad row.
+func (p Policy) badStatus() Status {
+	if p == PolicyKeep {
+		return RowKept
+	}
+	return RowRejected
+}
+
+// ErrNoHeading means a row has no heading while the glare group needs one.
+var ErrNoHeading = errors.New("the row has no heading; the glare group needs one")
+
 func (p Policy) String() string {
 	return [...]string{"fail", "skip", "keep"}[p]
 }
@@ -66,6 +77,8 @@ type Options struct {
 	BatchRows int
 	// Solar configures the sun computation (atmosphere, ΔT).
 	Solar solar.Options
+	// Glare holds the glare group's thresholds.
+	Glare GlareOptions
 	// OnProgress, if set, is called from the writing goroutine after each
 	// batch with the total rows handled so far.
 	OnProgress func(rows int64)
@@ -206,11 +219,7 @@ func Run(ctx context.Context, src Source, sink Sink, o Options) (Summary, error)
 					return b, re
 				}
 				res.Err[i] = re
-				if o.Policy == PolicyKeep {
-					res.Status[i] = RowKept
-				} else {
-					res.Status[i] = RowRejected
-				}
+				res.Status[i] = o.Policy.badStatus()
 			}
 		}
 
@@ -220,9 +229,23 @@ func Run(ctx context.Context, src Source, sink Sink, o Options) (Summary, error)
 		case <-ctx.Done():
 			return b, context.Cause(ctx)
 		}
-		if o.Plan.Has(GroupPosition) || o.Plan.Has(GroupPhase) {
+		if o.Plan.Has(GroupPosition) || o.Plan.Has(GroupPhase) || o.Plan.Has(GroupGlare) {
 			out := solar.Positions{Altitude: res.Altitude, Azimuth: res.Azimuth, Phase: res.Phase}
 			w.kernel.Positions(unix, in.Lat, in.Lon, &out)
+		}
+		if o.Plan.Has(GroupGlare) {
+			for i := range n {
+				if res.Status[i] != RowOK {
+					continue
+				}
+				if math.IsNaN(in.Heading[i]) {
+					res.Status[i] = o.Policy.badStatus()
+					res.Err[i] = &RowError{Row: b.first + int64(i), Line: b.chunk.Line(i), Err: ErrNoHeading}
+					continue
+				}
+				res.RelAz[i] = RelativeAzimuth(res.Azimuth[i], in.Heading[i])
+				res.Glare[i] = GlareOf(res.Phase[i], res.Altitude[i], res.RelAz[i], o.Glare)
+			}
 		}
 		if o.Plan.Has(GroupEvents) || o.Plan.Has(GroupRelative) {
 			w.days(in, unix, res)

@@ -11,6 +11,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"math"
 	"time"
 )
 
@@ -67,6 +68,9 @@ type Inputs struct {
 	// Zone decides the row's local calendar date (events, relative columns):
 	// nil means the location's mean solar time.
 	Zone []*time.Location
+	// Heading is the direction of travel or view, degrees clockwise from
+	// true north, NaN when the input gives none.
+	Heading []float64
 	// Note is "" or a short reason about how the time was read (sun_time_note).
 	Note []string
 	// Err is nil, or the row's problem: a *RowError naming the column.
@@ -84,6 +88,10 @@ func (in *Inputs) Reset(n int) {
 	in.Zone = resize(in.Zone, n)
 	in.Note = resize(in.Note, n)
 	in.Err = resize(in.Err, n)
+	in.Heading = resize(in.Heading, n)
+	for i := range in.Heading {
+		in.Heading[i] = math.NaN()
+	}
 }
 
 func resize[T any](s []T, n int) []T {
@@ -168,7 +176,16 @@ type Select struct {
 	TZ string `json:"tz,omitempty"`
 	// TZColumn names a column of IANA zone names, one per row.
 	TZColumn string `json:"tz_column,omitempty"`
+	// Heading names a column of directions of travel or view (degrees
+	// clockwise from true north, or compass words), for the glare group.
+	Heading string `json:"heading,omitempty"`
+	// HeadingFromGeometry takes the heading from a line geometry: its
+	// bearing at the representative point, in the direction drawn.
+	HeadingFromGeometry bool `json:"heading_from_geometry,omitempty"`
 }
+
+// HasHeading reports whether a heading is given (needed by the glare group).
+func (s Select) HasHeading() bool { return s.Heading != "" || s.HeadingFromGeometry }
 
 // ZoneMode reports whether offset-less local times can be read (a zone is set).
 func (s Select) ZoneMode() bool { return s.TZ != "" || s.TZColumn != "" }

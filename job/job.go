@@ -41,6 +41,7 @@ type Options struct {
 	Prefix string
 
 	Solar solar.Options
+	Glare enrich.GlareOptions
 
 	Policy  enrich.Policy
 	Rejects string // rejects file for the skip policy
@@ -85,7 +86,10 @@ func Enrich(ctx context.Context, o Options, stdin io.Reader, stdout io.Writer) (
 		return res, fmt.Errorf("%w: %w", enrich.ErrUsage, err)
 	}
 	res.Format = f
-	if _, err := enrich.NewPlan(enrich.PlanOptions{Add: o.Add}); err != nil {
+	if err := o.Glare.Validate(); err != nil {
+		return res, err
+	}
+	if _, err := enrich.NewPlan(enrich.PlanOptions{Add: o.Add, Heading: o.Select.HasHeading()}); err != nil {
 		return res, err // the groups, checked before the input is opened
 	}
 	if o.To != "" && !strings.EqualFold(o.To, string(f)) {
@@ -130,6 +134,7 @@ func Enrich(ctx context.Context, o Options, stdin io.Reader, stdout io.Writer) (
 	plan, err := enrich.NewPlan(enrich.PlanOptions{
 		Add: o.Add, Prefix: o.Prefix, Input: in.Source.Columns(),
 		TimeNote:    o.Select.ZoneMode(),
+		Heading:     o.Select.HasHeading(),
 		ErrorColumn: o.Policy == enrich.PolicyKeep,
 	})
 	if err != nil {
@@ -169,7 +174,7 @@ func Enrich(ctx context.Context, o Options, stdin io.Reader, stdout io.Writer) (
 	}
 	eo := enrich.Options{
 		Plan: plan, Policy: o.Policy, Rejects: rejects,
-		Workers: o.Workers, BatchRows: o.BatchRows, Solar: o.Solar,
+		Workers: o.Workers, BatchRows: o.BatchRows, Solar: o.Solar, Glare: o.Glare,
 	}
 	if o.OnProgress != nil {
 		pos, _ := in.Source.(enrich.Progress)

@@ -25,9 +25,15 @@ Writes INPUT with the sun's position and natural-light columns added. Every
 original column is kept as it was; rows keep their order. The output is written
 to a temporary file next to the target and renamed only when the run succeeds.
 
-Column groups (--add): position (sun_altitude_deg, sun_azimuth_deg) and phase
-(sun_phase, sun_light_condition). Default: position,phase. --add none copies
-the rows unchanged (a passthrough: what reading and writing alone cost).
+Column groups (--add, comma-separated; default position,phase):
+  position  sun_altitude_deg, sun_azimuth_deg
+  phase     sun_phase, sun_light_condition
+  events    sun_rise, sun_set, sun_noon, sun_civil_dawn/dusk, sun_nautical_dawn/dusk,
+            sun_astronomical_dawn/dusk, sun_day_length_min, sun_noon_altitude_deg
+  relative  sun_minutes_from_rise, sun_minutes_from_set, sun_time_h
+  glare     sun_relative_azimuth_deg, sun_glare (needs --heading or --heading-from-geometry)
+  all       every group the input can feed
+  none      copy the rows unchanged (a passthrough: what reading and writing alone cost)
 
 Times without an offset need a zone: --tz ZONE, --tz-column COL or --tz auto.
 
@@ -91,6 +97,8 @@ func newEnrichFlags(fs *flag.FlagSet, ef *enrichFlags) {
 		o.Solar.DeltaT = &v
 		return nil
 	})
+	fs.Float64Var(&o.Glare.MaxAltitude, "glare-max-altitude", enrich.DefaultGlareMaxAltitude, "glare: the sun counts as low up to this altitude in `degrees`")
+	fs.Float64Var(&o.Glare.MaxOffset, "glare-max-offset", enrich.DefaultGlareMaxOffset, "glare: and as near the heading within this many `degrees`")
 	fs.StringVar(&ef.policy, "on-bad-row", "fail", "`POLICY` for bad rows: fail|skip|keep")
 	fs.StringVar(&o.Rejects, "rejects", "", "`FILE` for rows left out by --on-bad-row skip (default: beside the output)")
 	fs.StringVar(&o.Report, "report", "", "write the run's figures to `FILE`.json")
@@ -107,12 +115,15 @@ func newEnrichFlags(fs *flag.FlagSet, ef *enrichFlags) {
 func addSelectFlags(fs *flag.FlagSet, s *enrich.Select, delim *string) {
 	fs.StringVar(&s.Lat, "lat", "", "latitude `COL` (decimal degrees; default: detected by name)")
 	fs.StringVar(&s.Lon, "lon", "", "longitude `COL` (decimal degrees; default: detected by name)")
+	fs.StringVar(&s.Geometry, "geometry", "", "geometry `COL`: WKT in CSV/TSV (POINT (lon lat); other types use a representative point), WKB in Parquet")
 	fs.StringVar(&s.Time, "time", "", "timestamp `COL`, or with --date the time-of-day column")
 	fs.StringVar(&s.Date, "date", "", "date `COL`, combined with --time")
 	fs.StringVar(&s.TimeFormat, "time-format", "", "strftime `LAYOUT` of the time column, e.g. \"%d/%m/%Y %H:%M\"")
 	fs.StringVar(&s.Epoch, "epoch", "", "times are Unix time in `UNIT`: s|ms|us|ns")
 	fs.StringVar(&s.TZ, "tz", "", "`ZONE` of offset-less times: an IANA name (America/Chicago), UTC, or auto")
 	fs.StringVar(&s.TZColumn, "tz-column", "", "`COL` of IANA zone names, one per row")
+	fs.StringVar(&s.Heading, "heading", "", "`COL` of directions of travel or view: degrees from true north, or N, NE, ..., NB, SB, EB, WB (glare group)")
+	fs.BoolVar(&s.HeadingFromGeometry, "heading-from-geometry", false, "take the heading from a line geometry, in the direction drawn (glare group)")
 	fs.StringVar(delim, "delimiter", "", "field `CHAR` for CSV/TSV: , ; | or tab (default: from the extension)")
 }
 

@@ -38,6 +38,7 @@ var (
 type Extractor struct {
 	lat, lon, ts, date, clock, tz int // column indexes; -1 when unused
 	geom                          int // WKT geometry column (--geometry); -1 when unused
+	heading                       int // --heading column; -1 when unused
 	names                         []string
 	parser                        *stamp.Parser
 	zones                         *zone.Resolver
@@ -61,7 +62,7 @@ func NewTime(header []string, sel enrich.Select) (*Extractor, error) {
 }
 
 func newExtractor(header []string, sel enrich.Select, location bool) (*Extractor, error) {
-	x := &Extractor{lat: -1, lon: -1, ts: -1, date: -1, clock: -1, tz: -1, geom: -1, names: header, sel: sel}
+	x := &Extractor{lat: -1, lon: -1, ts: -1, date: -1, clock: -1, tz: -1, geom: -1, heading: -1, names: header, sel: sel}
 	var err error
 	if location && sel.Geometry != "" {
 		if err := x.pickGeometry(sel); err != nil {
@@ -111,6 +112,9 @@ func newExtractor(header []string, sel enrich.Select, location bool) (*Extractor
 		if x.tz, err = x.pick("time zone", "--tz-column", sel.TZColumn, nil, true); err != nil {
 			return nil, err
 		}
+	}
+	if err := x.pickHeading(sel); err != nil {
+		return nil, err
 	}
 	if x.ts >= 0 {
 		x.timeCol = x.names[x.ts]
@@ -236,6 +240,9 @@ func (x *Extractor) Row(rec []string, i int, in *enrich.Inputs) {
 	}
 	in.Lat[i], in.Lon[i] = lat, lon
 	x.Time(rec, i, lat, lon, in)
+	if in.Err[i] == nil {
+		x.Heading(rec, i, in)
+	}
 }
 
 // Time reads row i's time (and zone) from rec, for a known location.

@@ -45,6 +45,20 @@ func (x *Extractor) rowGeometry(rec []string, i int, in *enrich.Inputs) {
 	lat, lon := p[1], p[0]
 	in.Lat[i], in.Lon[i] = lat, lon
 	x.Time(rec, i, lat, lon, in)
+	if in.Err[i] != nil {
+		return
+	}
+	if x.sel.HeadingFromGeometry {
+		g, _ := WKTGeometry(rec[x.geom]) // parsed once already above
+		h, err := geom.Heading(g)
+		if err != nil {
+			in.Err[i] = &enrich.RowError{Column: x.names[x.geom], Err: err}
+			return
+		}
+		in.Heading[i] = h
+		return
+	}
+	x.Heading(rec, i, in)
 }
 
 // WKTPoint reads a WKT geometry (OGC Simple Features well-known text, as in
@@ -57,17 +71,9 @@ func (x *Extractor) rowGeometry(rec []string, i int, in *enrich.Inputs) {
 // coordinates must be longitude and latitude). Errors wrap ErrEmpty (empty
 // text or an EMPTY geometry) or ErrWKT.
 func WKTPoint(s string) (orb.Point, error) {
-	t := strings.TrimSpace(s)
-	if t == "" {
-		return orb.Point{}, fmt.Errorf("%w: geometry is empty; expected WKT such as POINT (8.54 47.37) (longitude latitude)", ErrEmpty)
-	}
-	norm, err := normalizeWKT(t)
+	g, err := WKTGeometry(s)
 	if err != nil {
-		return orb.Point{}, fmt.Errorf("%w: %s; expected WKT such as POINT (8.54 47.37) (longitude latitude)", ErrWKT, err)
-	}
-	g, err := wkt.Unmarshal(norm)
-	if err != nil {
-		return orb.Point{}, fmt.Errorf("%w: %q cannot be read (%w); expected WKT such as POINT (8.54 47.37) (longitude latitude)", ErrWKT, clip(s), err)
+		return orb.Point{}, err
 	}
 	p, err := geom.Representative(g)
 	if errors.Is(err, geom.ErrEmpty) {
@@ -80,6 +86,23 @@ func WKTPoint(s string) (orb.Point, error) {
 		return orb.Point{}, fmt.Errorf("%w: the representative point of %q is not finite", ErrWKT, clip(s))
 	}
 	return p, nil
+}
+
+// WKTGeometry parses WKT as WKTPoint does, and returns the geometry.
+func WKTGeometry(s string) (orb.Geometry, error) {
+	t := strings.TrimSpace(s)
+	if t == "" {
+		return nil, fmt.Errorf("%w: geometry is empty; expected WKT such as POINT (8.54 47.37) (longitude latitude)", ErrEmpty)
+	}
+	norm, err := normalizeWKT(t)
+	if err != nil {
+		return nil, fmt.Errorf("%w: %s; expected WKT such as POINT (8.54 47.37) (longitude latitude)", ErrWKT, err)
+	}
+	g, err := wkt.Unmarshal(norm)
+	if err != nil {
+		return nil, fmt.Errorf("%w: %q cannot be read (%w); expected WKT such as POINT (8.54 47.37) (longitude latitude)", ErrWKT, clip(s), err)
+	}
+	return g, nil
 }
 
 // clip shortens a value for a message.

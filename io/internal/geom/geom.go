@@ -141,3 +141,54 @@ func Bearing(a, b orb.Point) float64 {
 	θ := math.Atan2(y, x) * 180 / math.Pi
 	return math.Mod(θ+360, 360)
 }
+
+// ErrNotLine means a heading was asked of a geometry that has no direction.
+var ErrNotLine = errors.New("geometry has no direction")
+
+// Heading returns the direction of a line geometry at its representative
+// point: the bearing (degrees clockwise from true north, [0, 360), on a local
+// flat map at the segment's midpoint) of the segment that holds the point
+// halfway along the line, in the direction the line is drawn. A MultiLineString uses its longest line. Other geometry
+// types have no direction (ErrNotLine).
+func Heading(g orb.Geometry) (float64, error) {
+	var ls orb.LineString
+	switch v := g.(type) {
+	case orb.LineString:
+		ls = v
+	case orb.MultiLineString:
+		best := -1.0
+		for _, l := range v {
+			if n := planar.Length(l); len(l) > 1 && n > best {
+				ls, best = l, n
+			}
+		}
+	default:
+		return 0, fmt.Errorf("%w: a heading from the geometry needs a LineString or MultiLineString, got %s", ErrNotLine, typeName(g))
+	}
+	half := planar.Length(ls) / 2
+	for i := 1; i < len(ls); i++ {
+		d := planar.Distance(ls[i-1], ls[i])
+		if d > 0 && (d >= half || i == len(ls)-1) {
+			return localBearing(ls[i-1], ls[i]), nil
+		}
+		half -= d
+	}
+	return 0, fmt.Errorf("%w: the line has no length", ErrNotLine)
+}
+
+// localBearing is the direction from a to b on a local flat map around their
+// midpoint (east distances scaled by the cosine of the latitude): for the
+// short segments of roads and tracks it is the direction of travel, and a
+// segment along a parallel heads exactly 90° or 270°.
+func localBearing(a, b orb.Point) float64 {
+	mid := (a[1] + b[1]) / 2 * math.Pi / 180
+	θ := math.Atan2((b[0]-a[0])*math.Cos(mid), b[1]-a[1]) * 180 / math.Pi
+	return math.Mod(θ+360, 360)
+}
+
+func typeName(g orb.Geometry) string {
+	if g == nil {
+		return "no geometry"
+	}
+	return g.GeoJSONType()
+}

@@ -49,3 +49,28 @@ func TestBearing(t *testing.T) {
 	assert.InDelta(t, 270, Bearing(orb.Point{1, 0}, orb.Point{0, 0}), 1e-9)
 	assert.InDelta(t, 180, Bearing(orb.Point{0, 1}, orb.Point{0, 0}), 1e-9)
 }
+
+func TestHeading(t *testing.T) {
+	// Common practice: a line drawn west to east heads 90°, north to south 180°.
+	cases := []struct {
+		name string
+		g    orb.Geometry
+		want float64
+	}{
+		{"west to east", orb.LineString{{0, 10}, {1, 10}}, 90},
+		{"north to south", orb.LineString{{5, 11}, {5, 10}}, 180},
+		{"segment at the halfway point", orb.LineString{{0, 0}, {0, 1}, {3, 1}}, 90},
+		{"longest line of a multiline", orb.MultiLineString{{{0, 0}, {0, 0.1}}, {{2, 0}, {0, 0}}}, 270},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			h, err := Heading(c.g)
+			require.NoError(t, err)
+			assert.InDelta(t, c.want, h, 0.01)
+		})
+	}
+	_, err := Heading(orb.Point{1, 2})
+	assert.ErrorIs(t, err, ErrNotLine)
+	_, err = Heading(orb.LineString{{1, 2}, {1, 2}})
+	assert.ErrorIs(t, err, ErrNotLine)
+}
