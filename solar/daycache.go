@@ -4,12 +4,17 @@ import "math/bits"
 
 // dayCache remembers a kernel's Days: a two-way set-associative cache keyed by the bits of (lat, lon,
 // start, end), replacing the entry of a set used less recently. It grows fourfold, up to maxDaySets sets,
-// when the rows have evicted as many entries as it holds.
+// when within one epoch (4 look-ups per entry) it has evicted as many entries as it holds and missed on
+// more than half of the look-ups: the rows revisit more places and dates than it holds. Rows in time order,
+// which evict dates they do not come back to but hit the dates in use, keep it small.
 type dayCache struct {
-	entries   []dayEntry // two per set
-	recent    []uint8    // per set: the way used last
-	shift     uint       // 64 − log2(number of sets)
-	evictions int
+	entries                   []dayEntry // two per set
+	recent                    []uint8    // per set: the way used last
+	shift                     uint       // 64 − log2(number of sets)
+	evictions                 int        // since the cache was (re)built, as are sinceLookups and sinceMisses
+	sinceLookups, sinceMisses int
+
+	lookups, misses int // counted for the tests and benchmarks
 }
 
 // dayKey holds the bits of a Day's inputs. The zero key stands for an empty entry: it is (0, 0, 0, 0), a
@@ -22,7 +27,7 @@ type dayEntry struct {
 }
 
 const (
-	minDaySets = 1 << 8  // 512 entries, 70 kB
+	minDaySets = 1 << 10 // 2048 entries, 280 kB
 	maxDaySets = 1 << 13 // 16384 entries, 2.3 MB
 )
 
@@ -31,7 +36,7 @@ func (c *dayCache) allocate(n int) {
 	c.entries = make([]dayEntry, 2*n)
 	c.recent = make([]uint8, n)
 	c.shift = uint(64 - bits.TrailingZeros(uint(n)))
-	c.evictions = 0
+	c.evictions, c.sinceLookups, c.sinceMisses = 0, 0, 0
 }
 
 // set returns the set of a key: the top bits of a multiplicative hash of its words.
@@ -52,7 +57,15 @@ func (c *dayCache) store(set int, key dayKey, d Day) {
 	}
 	e.key, e.day = key, d
 	c.recent[set] = uint8(way)
-	if n := len(c.recent); c.evictions >= len(c.entries) && n < maxDaySets {
+	c.sinceMisses++
+	if n := len(c.recent); c.evictions >= len(c.entries) && 2*c.sinceMisses > c.sinceLookups && n < maxDaySets {
 		c.allocate(min(4*n, maxDaySets))
+	}
+}
+
+// newEpoch starts counting evictions, look-ups and misses afresh once an epoch of look-ups has passed.
+func (c *dayCache) newEpoch() {
+	if c.sinceLookups >= 4*len(c.entries) {
+		c.evictions, c.sinceLookups, c.sinceMisses = 0, 0, 0
 	}
 }

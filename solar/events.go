@@ -166,48 +166,62 @@ type sunAt struct {
 	sd, cd   float64 // sine and cosine of the apparent declination
 	dsd, dcd float64 // their rates, per second
 	xi       float64 // sine of the equatorial horizontal parallax
-	sh, ch   float64 // sine and cosine of h
 }
 
-// at evaluates the sun at instant t.
+// at evaluates the sun at instant t, on the kernel's grid or on the reference path.
 func (s *eventSolver) at(t float64) sunAt {
-	p := sunAt{t: t}
-	if k := s.k; k != nil {
-		f := t * (1 / gridStep)
-		fk := math.Floor(f)
-		u := f - fk
-		ck := int64(fk)
-		c := &k.cells[ck&int64(len(k.cells)-1)]
-		if c.tag != ck {
-			k.fill(c, ck)
-		}
-		var g, dg float64
-		g, dg = polyD(&c.gha, u)
-		p.sd, p.dsd = polyD(&c.sinDec, u)
-		p.cd, p.dcd = polyD(&c.cosDec, u)
-		p.h, p.dh = g+s.lon, dg*(1/gridStep)
-		p.dsd *= 1 / gridStep
-		p.dcd *= 1 / gridStep
-		p.xi = c.sinXi
-		p.sh, p.ch = math.Sincos(p.h * deg)
-		// The sun's direction in the observer's (up, north, east) frame minus the observer's offset from the
-		// Earth's centre in units of the sun's distance, as in Kernel.Positions (pass 3), at sea level.
-		up := s.sp*p.sd + s.cp*p.cd*p.ch - p.xi*s.q
-		no := s.cp*p.sd - s.sp*p.cd*p.ch + p.xi*s.pq
-		ea := -p.cd * p.sh
-		p.s = up / math.Sqrt(up*up+no*no+ea*ea)
-	} else {
-		g := GeocentricAt(JulianDay(t), s.o.DeltaTAt(t))
-		pos := g.Topocentric(s.lat, s.lon, Options{}) // sea level; the geometric altitude has no refraction
-		p.s = math.Sin(pos.GeometricAltitude * deg)
-		p.h, p.dh = g.SiderealTime+s.lon-g.RightAscension, s.dH
-		p.sd, p.cd = math.Sincos(g.Declination * deg)
-		dDec := s.dDec0 + s.dDec1*(t-s.tm)
-		p.dsd, p.dcd = p.cd*dDec, -p.sd*dDec
-		p.xi = math.Sin(parallaxArcsec / (3600 * g.Distance) * deg)
-		p.sh, p.ch = math.Sincos(p.h * deg)
+	evalCount++
+	evalBy[evalWhere]++
+	if s.k != nil {
+		return s.atGrid(t)
 	}
-	p.ds = s.sp*p.dsd + s.cp*(p.dcd*p.ch-p.cd*p.sh*p.dh*deg)
+	return s.atReference(t)
+}
+
+// atGrid evaluates the sun at instant t from the kernel's cell of t.
+func (s *eventSolver) atGrid(t float64) sunAt {
+	k := s.k
+	p := sunAt{t: t}
+	f := t * (1 / gridStep)
+	fk := math.Floor(f)
+	u := f - fk
+	ck := int64(fk)
+	c := &k.cells[ck&int64(len(k.cells)-1)]
+	if c.tag != ck {
+		k.fill(c, ck)
+	}
+	g, dg := polyD(&c.gha, u)
+	p.sd, p.dsd = polyD(&c.sinDec, u)
+	p.cd, p.dcd = polyD(&c.cosDec, u)
+	p.h, p.dh = g+s.lon, dg*(1/gridStep)
+	p.dsd *= 1 / gridStep
+	p.dcd *= 1 / gridStep
+	p.xi = c.sinXi
+	sh, ch := sincosDeg(p.h)
+	// The sun's direction in the observer's (up, north, east) frame minus the observer's offset from the
+	// Earth's centre in units of the sun's distance, as in Kernel.Positions (pass 3), at sea level.
+	up := s.sp*p.sd + s.cp*p.cd*ch - p.xi*s.q
+	no := s.cp*p.sd - s.sp*p.cd*ch + p.xi*s.pq
+	ea := -p.cd * sh
+	p.s = up / math.Sqrt(up*up+no*no+ea*ea)
+	p.ds = s.sp*p.dsd + s.cp*(p.dcd*ch-p.cd*sh*p.dh*deg)
+	return p
+}
+
+// atReference evaluates the sun at instant t with GeocentricAt and Geocentric.Topocentric, as Position
+// does; the rates come from referenceRates.
+func (s *eventSolver) atReference(t float64) sunAt {
+	p := sunAt{t: t}
+	g := GeocentricAt(JulianDay(t), s.o.DeltaTAt(t))
+	pos := g.Topocentric(s.lat, s.lon, Options{}) // sea level; the geometric altitude has no refraction
+	p.s = math.Sin(pos.GeometricAltitude * deg)
+	p.h, p.dh = g.SiderealTime+s.lon-g.RightAscension, s.dH
+	p.sd, p.cd = math.Sincos(g.Declination * deg)
+	dDec := s.dDec0 + s.dDec1*(t-s.tm)
+	p.dsd, p.dcd = p.cd*dDec, -p.sd*dDec
+	p.xi = math.Sin(parallaxArcsec / (3600 * g.Distance) * deg)
+	sh, ch := math.Sincos(p.h * deg)
+	p.ds = s.sp*p.dsd + s.cp*(p.dcd*ch-p.cd*sh*p.dh*deg)
 	return p
 }
 
@@ -224,52 +238,59 @@ const maxDecRate = 0.5 * deg / secondsPerDay
 
 // Limits of the search.
 const (
-	maxTurns    = 8    // turning points of the altitude within a window (at most 5 in 48 h)
-	maxRises    = 8    // sunrise-altitude crossings within a window (at most 4 in 48 h)
-	turnTol     = 0.5  // seconds: a turning point is located to within this
-	rootTol     = 0.25 // seconds: Newton steps stop below this (the error left is far smaller)
-	transitTol  = 1e-3 // seconds: transit steps stop below this
-	maxRootIter = 80   // Newton or bisection steps per crossing, a bound never reached in practice
+	maxTurns    = 8  // turning points of the altitude within a window (at most 5 in 48 h)
+	maxRises    = 8  // sunrise-altitude crossings within a window (at most 4 in 48 h)
+	turnTol     = 2  // seconds: a turning point is located to within this (see turn)
+	rootTol     = 1  // seconds: Newton steps stop below this (the error left is far smaller, see root)
+	transitTol  = 2  // seconds: the last transit step is below this (the error left is far smaller)
+	maxRootIter = 80 // Newton or bisection steps per crossing, a bound never reached in practice
 )
 
 // solve finds the events of the window [start, end).
 func (s *eventSolver) solve(start, end float64) Day {
 	d := nanDay()
+	evalWhere = 0
 	p0 := s.at(start)
+	evalWhere = 1
+	period := 360 / p0.dh // seconds from one transit to the next, at the start's rate
 
-	// The turning points of the altitude: where its rate a + b·cos H − c·sin H vanishes (see turn). With
-	// |a| + |b| < c they lie within asin((|a| + |b|)/c) of the culminations (H = 0° and 180°); in any case
-	// within a quarter turn.
-	c := s.cp * p0.cd * p0.dh * deg
-	reach := 90.0
-	if r := (math.Abs(s.sp) + s.cp) * maxDecRate / c; r < 1 {
-		reach = math.Asin(r) * rad
+	// Noon: the first transit in the window. The hour angle advances almost uniformly (its rate changes by
+	// less than 1e-4 in a day), so the transit predicted from the start is within a second or so.
+	up0 := start + wrap360(-p0.h)/p0.dh
+	noon, ok := s.transit(up0)
+	if ok && noon.t < start { // the hour angle was just below 0 at the start, and the step went past it
+		noon, ok = s.transit(noon.t + period)
 	}
-	reach = (reach + 1) / p0.dh // seconds, with a margin of 1° of hour angle
-	period := 360 / p0.dh
+	if ok && noon.t < end {
+		d.Noon = noon.t
+		d.NoonAltitude = s.noonAltitude(noon)
+	}
+
+	evalWhere = 2
+	// The turning points of the altitude in the window, near the upper culminations (H = 0°) at
+	// up0 + k·period and the lower ones (H = 180°) half a period away; see turnOffset. Their offsets from
+	// the culminations are predicted from the state at the start and then checked by turn.
 	var turns [maxTurns]sunAt
-	var upper [maxTurns]bool
 	nt := 0
-	for i, target := range [2]float64{0, 180} {
-		t := start + wrap360(target-p0.h)/p0.dh
-		for t-period >= start-reach {
-			t -= period
+	offUp, okUp := s.turnOffset(p0, true)
+	offLow, okLow := s.turnOffset(p0, false)
+	margin := 600 + 0.25*math.Abs(offUp) + 0.25*math.Abs(offLow) // seconds, for the prediction's error
+	tc := up0 - period*math.Ceil((up0-start+margin+period)/period)
+	for upper := true; tc < end+margin+period; tc, upper = tc+period/2, !upper {
+		off, ok := offUp, okUp
+		if !upper {
+			off, ok = offLow, okLow
 		}
-		for ; t <= end+reach && nt < maxTurns; t += period {
-			if x, ok := s.turn(t, i == 0); ok && x.t > start && x.t < end {
-				turns[nt], upper[nt] = x, i == 0
-				nt++
-			}
+		if !ok || tc+off <= start-margin || tc+off >= end+margin || nt == maxTurns {
+			continue
 		}
-	}
-	// Sort by time (insertion sort of at most a few items).
-	for i := 1; i < nt; i++ {
-		for j := i; j > 0 && turns[j].t < turns[j-1].t; j-- {
-			turns[j], turns[j-1] = turns[j-1], turns[j]
-			upper[j], upper[j-1] = upper[j-1], upper[j]
+		if x, ok := s.turn(tc+off, upper); ok && x.t > start && x.t < end {
+			turns[nt] = x
+			nt++
 		}
 	}
 
+	evalWhere = 3
 	// Crossings on each monotonic piece [a, b].
 	var rises [maxRises]float64
 	var rising [maxRises]bool
@@ -282,9 +303,13 @@ func (s *eventSolver) solve(start, end float64) Day {
 		if i < nt {
 			b = turns[i]
 		} else {
+			evalWhere = 5
 			b = s.at(end)
 		}
 		up := b.s > a.s
+		var g pieceGuess
+		guessed := false
+		evalWhere = 4
 		for j, s0 := range sinEventAltitudes {
 			slot := dusk[j]
 			if up {
@@ -296,7 +321,10 @@ func (s *eventSolver) solve(start, end float64) Day {
 			if up && !(a.s < s0 && b.s >= s0) || !up && !(a.s >= s0 && b.s < s0) {
 				continue
 			}
-			t := s.root(a, b, s0, up)
+			if !guessed {
+				g, guessed = s.newPieceGuess(a, b, up), true
+			}
+			t := s.root(a, b, s0, up, &g)
 			if !(t >= start && t < end) {
 				continue
 			}
@@ -315,7 +343,7 @@ func (s *eventSolver) solve(start, end float64) Day {
 	switch {
 	case d.Rise < d.Set:
 		d.DayLength = (d.Set - d.Rise) / 60
-	case nr == 0 && p0.s >= sinEventAltitudes[0]:
+	case nr == 0 && p0.s > sinEventAltitudes[0]:
 		d.DayLength = 1440
 	case nr == 0:
 		d.DayLength = 0
@@ -332,48 +360,63 @@ func (s *eventSolver) solve(start, end float64) Day {
 		}
 		d.DayLength = above / 60
 	}
-
-	// Noon: the first transit in the window.
-	t := start + wrap360(-p0.h)/p0.dh
-	for range 2 {
-		p, ok := s.transit(t)
-		if ok && p.t < start {
-			t = p.t + period
-			continue
-		}
-		if ok && p.t < end {
-			d.Noon = p.t
-			d.NoonAltitude = s.noonAltitude(p)
-		}
-		break
-	}
 	return d
 }
 
-// turn locates the turning point of the altitude near the instant t0 of a culmination: the maximum near an
-// upper one (upper) or the minimum near a lower one. The rate of the altitude's sine is
+// turnOffset returns the offset in seconds from a culmination (upper, H = 0°, or lower, H = 180°) to the
+// turning point of the altitude near it, from the rates at p: the rate of the altitude's sine is
 // a + b·cos H − c·sin H = a + R·cos(H + ψ) with a = sinφ·(sin δ)′, b = cosφ·(cos δ)′, c = cosφ·cos δ·H′,
-// R = √(b² + c²) and ψ = atan2(c, b); it vanishes at H = ±acos(−a/R) − ψ, the maximum at the + sign. The
-// coefficients change slowly, so a few steps from the culmination converge. ok is false when |a| ≥ R: near
-// the poles, when the declination changes faster than the daily circle moves the sun, the altitude has no
-// turning point there.
-func (s *eventSolver) turn(t0 float64, upper bool) (p sunAt, ok bool) {
-	t := t0
-	for range 6 {
+// R = √(b² + c²) and ψ = atan2(c, b); it vanishes at H = ±acos(−a/R) − ψ, the maximum at the + sign. Away
+// from the poles a and b are tiny beside c, and the turning points are at H = (a + b)/c and 180° + (b − a)/c
+// radians. ok is false when |a| ≥ R: near the poles, when the declination changes faster than the daily
+// circle moves the sun, the altitude has no turning point.
+func (s *eventSolver) turnOffset(p sunAt, upper bool) (off float64, ok bool) {
+	h, ok := s.turnHourAngle(p, upper)
+	if !ok {
+		return 0, false
+	}
+	if !upper {
+		h -= 180
+	}
+	return wrap180(h) / p.dh, true
+}
+
+// turnHourAngle returns the hour angle, degrees, of the turning point near the upper or lower culmination,
+// from the rates at p (see turnOffset).
+func (s *eventSolver) turnHourAngle(p sunAt, upper bool) (float64, bool) {
+	a := s.sp * p.dsd
+	b := s.cp * p.dcd
+	c := s.cp * p.cd * p.dh * deg
+	if math.Abs(a)+math.Abs(b) < 0.01*c { // the third-order terms are below 1e-6 rad
+		if upper {
+			return (a + b) / c * rad, true
+		}
+		return 180 + (b-a)/c*rad, true
+	}
+	r := math.Hypot(b, c)
+	if !(math.Abs(a) < r) {
+		return 0, false
+	}
+	x := math.Acos(-a / r)
+	if !upper {
+		x = -x
+	}
+	return (x - math.Atan2(c, b)) * rad, true
+}
+
+// turn locates the turning point of the altitude (the maximum if upper, else the minimum) from an estimate
+// t of it: it steps to the hour angle of the turning point computed from the rates at the current instant
+// until the step is below turnTol. A turning point off by turnTol seconds leaves the altitude beside it
+// non-monotonic by at most 1e-8 (of its sine), below the accuracy of the batch path. ok is false if the
+// altitude turns out to have no turning point there.
+func (s *eventSolver) turn(t float64, upper bool) (p sunAt, ok bool) {
+	for range 8 {
 		p = s.at(t)
-		a := s.sp * p.dsd
-		b := s.cp * p.dcd
-		c := s.cp * p.cd * p.dh * deg
-		r := math.Hypot(b, c)
-		if !(math.Abs(a) < r) {
+		h, ok := s.turnHourAngle(p, upper)
+		if !ok {
 			return p, false
 		}
-		x := math.Acos(-a / r)
-		if !upper {
-			x = -x
-		}
-		target := (x - math.Atan2(c, b)) * rad
-		dt := wrap180(target-p.h) / p.dh
+		dt := wrap180(h-p.h) / p.dh
 		if math.Abs(dt) < turnTol {
 			break
 		}
@@ -383,33 +426,15 @@ func (s *eventSolver) turn(t0 float64, upper bool) (p sunAt, ok bool) {
 }
 
 // root finds the instant in [a.t, b.t] when the altitude's sine crosses s0, given that it does there once:
-// upwards (up) from a.s < s0 <= b.s, or downwards from a.s >= s0 > b.s.
-func (s *eventSolver) root(a, b sunAt, s0 float64, up bool) float64 {
+// upwards (up) from a.s < s0 <= b.s, or downwards from a.s >= s0 > b.s. It takes Newton steps from the
+// estimate of g (regula falsi if that fails), kept inside the bracket that the altitudes evaluated so
+// far leave (bisecting when a step would leave it), and stops after a Newton step shorter than rootTol: the
+// error left is then about step²·|f″/2f′|, under a millisecond unless the crossing is within a few minutes
+// of a turning point (a grazing crossing, where the altitude stays within 1e-6° of the threshold for
+// seconds anyway).
+func (s *eventSolver) root(a, b sunAt, s0 float64, up bool, g *pieceGuess) float64 {
 	lo, hi := a.t, b.t
-	// A start from the hour angle at which a sun of the declination at the nearer end would be at s0, with
-	// the declination carried to that instant at its rate of change. Above the parallax, the sine of the
-	// geocentric altitude is s0 + ξ·q approximately.
-	ref := a
-	if up {
-		ref = b // the rising piece ends at the upper turning point: nearer in hour angle for the usual case
-	}
-	t := math.NaN()
-	if s.cp > 1e-9 {
-		g0 := s0 + ref.xi*s.q
-		sd, cd := ref.sd, ref.cd
-		for range 2 {
-			x := (g0 - s.sp*sd) / (s.cp * cd)
-			if !(x >= -1 && x <= 1) {
-				break
-			}
-			h := math.Acos(x) * rad
-			if up {
-				h = -h
-			}
-			t = ref.t + wrap180(h-ref.h)/ref.dh
-			sd, cd = ref.sd+ref.dsd*(t-ref.t), ref.cd+ref.dcd*(t-ref.t)
-		}
-	}
+	t := g.guess(s0, up)
 	if !(t > lo && t < hi) {
 		t = lo + (hi-lo)*(s0-a.s)/(b.s-a.s) // regula falsi
 		if !(t > lo && t < hi) {
@@ -441,10 +466,66 @@ func (s *eventSolver) root(a, b sunAt, s0 float64, up bool) float64 {
 	return t
 }
 
-// transit refines an estimate t of a transit (local hour angle 0) by Newton steps on the hour angle.
+// pieceGuess holds what the first estimates of the crossings on one monotonic piece share (see guess): a
+// sun of the declination at the piece's upper end ref would be at the sine s0 of a threshold at the hour
+// angle H0 with cos H0 = x = x0 + x1·s0, where the geocentric altitude's sine is taken as s0 + ξ·q (it is
+// higher than the topocentric one by about that); the declination's change moves x by (dx0 + dx1·s0) per
+// second.
+type pieceGuess struct {
+	ref              sunAt
+	x0, x1, dx0, dx1 float64
+	invDH            float64 // 1/H′, seconds per degree
+	ok               bool
+}
+
+func (s *eventSolver) newPieceGuess(a, b sunAt, up bool) (g pieceGuess) {
+	ref := a
+	if up {
+		ref = b
+	}
+	g.ref = ref
+	if !(s.cp > 1e-9) {
+		return g
+	}
+	ccd := s.cp * ref.cd
+	inv := 1 / ccd
+	g.x1 = inv
+	g.x0 = (ref.xi*s.q - s.sp*ref.sd) * inv
+	// dx/dt = (−sinφ·(sin δ)′·cos δ − (g − sinφ·sin δ)·cosφ·(cos δ)′)/(cosφ·cos²δ), g = s0 + ξ·q.
+	inv2 := inv / ref.cd
+	g.dx1 = -s.cp * ref.dcd * inv2
+	g.dx0 = (-s.sp*ref.dsd*ref.cd - (ref.xi*s.q-s.sp*ref.sd)*s.cp*ref.dcd) * inv2
+	g.invDH = 1 / ref.dh
+	g.ok = true
+	return g
+}
+
+// guess estimates the crossing of s0 on the piece from the hour angle H0 at which the sun would be at s0,
+// carried to first order along the declination's change: the instant when H(t) = ∓H0(t). NaN when there is
+// no such hour angle.
+func (g *pieceGuess) guess(s0 float64, up bool) float64 {
+	x := g.x0 + g.x1*s0
+	if !g.ok || !(x > -1 && x < 1) {
+		return math.NaN()
+	}
+	h0 := acosApprox(x) * rad
+	// dH0/dt = −(dx/dt)/sin H0, in units of H′ (degrees per second).
+	r := -(g.dx0 + g.dx1*s0) / math.Sqrt(1-x*x) * rad * g.invDH
+	if !(math.Abs(r) < 0.01) {
+		r = 0 // grazing: the estimate is poor whatever is done, and the bracket takes over
+	}
+	// Solve H(ref) + H′·τ = ∓(H0 + r·H′·τ): τ = Δ/(H′(1 ± r)) ≈ Δ/H′·(1 ∓ r).
+	if up {
+		return g.ref.t + wrap180(-h0-g.ref.h)*g.invDH*(1-r)
+	}
+	return g.ref.t + wrap180(h0-g.ref.h)*g.invDH*(1+r)
+}
+
+// transit refines an estimate t of a transit (local hour angle 0) by Newton steps on the hour angle. The
+// returned state is that of the last evaluation, with its instant set to the refined transit.
 func (s *eventSolver) transit(t float64) (sunAt, bool) {
 	var p sunAt
-	for range 6 {
+	for range 8 {
 		p = s.at(t)
 		dt := -wrap180(p.h) / p.dh
 		if !(math.Abs(dt) < 43200) {
@@ -455,7 +536,12 @@ func (s *eventSolver) transit(t float64) (sunAt, bool) {
 			break
 		}
 	}
-	p.t = t // within transitTol of p's instant: the altitude has stopped changing at the meridian
+	// Carry the declination and hour angle over the last step (under transitTol) to first order.
+	dt := t - p.t
+	p.t = t
+	p.sd += p.dsd * dt
+	p.cd += p.dcd * dt
+	p.h += p.dh * dt
 	return p, true
 }
 
@@ -467,9 +553,10 @@ func (s *eventSolver) noonAltitude(p sunAt) float64 {
 		g := GeocentricAt(JulianDay(p.t), s.o.DeltaTAt(p.t))
 		return g.Topocentric(s.lat, s.lon, s.o).Altitude
 	}
-	up := s.sp*p.sd + s.cp*p.cd*p.ch - p.xi*(s.q+k.elev)
-	no := s.cp*p.sd - s.sp*p.cd*p.ch + p.xi*s.pq
-	ea := -p.cd * p.sh
+	sh, ch := sincosDeg(p.h)
+	up := s.sp*p.sd + s.cp*p.cd*ch - p.xi*(s.q+k.elev)
+	no := s.cp*p.sd - s.sp*p.cd*ch + p.xi*s.pq
+	ea := -p.cd * sh
 	e := math.Atan2(up, math.Sqrt(no*no+ea*ea)) * rad
 	if e >= RefractionCutoff {
 		e += k.refr / math.Tan((e+10.3/(e+5.11))*deg)
@@ -485,9 +572,9 @@ func (s *eventSolver) noonAltitude(p sunAt) float64 {
 // whose fields are all NaN; so do invalid kernel options.
 //
 // The kernel remembers the Days it computed, keyed by (lat, lon, start, end) exactly, in a bounded cache
-// (two-way set-associative, from 512 entries growing to 16384, about 2.3 MB, when rows evict many), so rows
-// that repeat a few dozen places and dates cost a look-up. A cached Day is the one computed for the same
-// key, so results do not depend on the order of the rows.
+// (two-way set-associative, from 2048 entries, 280 kB, growing to 16384, 2.3 MB, when the rows revisit more
+// places and dates than it holds), so rows that repeat a few dozen places and dates cost a look-up. A cached
+// Day is the one computed for the same key, so results do not depend on the order of the rows.
 func (k *Kernel) Day(start, end, lat, lon float64) Day {
 	if !k.ok || !validWindow(start, end, lat, lon) {
 		return nanDay()
@@ -497,6 +584,9 @@ func (k *Kernel) Day(start, end, lat, lon float64) Day {
 	if c.entries == nil {
 		c.allocate(minDaySets)
 	}
+	c.lookups++
+	c.sinceLookups++
+	c.newEpoch()
 	set := c.set(key)
 	e := c.entries[2*set : 2*set+2 : 2*set+2]
 	if e[0].key == key {
@@ -507,10 +597,38 @@ func (k *Kernel) Day(start, end, lat, lon float64) Day {
 		c.recent[set] = 1
 		return e[1].day
 	}
+	c.misses++
 	k.grow() // between rows only: growing drops the grid's cells
 	s := newEventSolver(lat, lon)
 	s.k = k
 	d := s.solve(start, end)
 	c.store(set, key, d)
 	return d
+}
+
+// sincosDeg returns the sine and cosine of x degrees, as sincosDegs does for one value (within 1e-10).
+func sincosDeg(x float64) (s, c float64) {
+	q := math.Floor(x*(1.0/90) + 0.5)
+	z := (x - 90*q) * deg
+	z2 := z * z
+	sp := z * (sin0 + z2*(sin2+z2*(sin4+z2*(sin6+z2*sin8))))
+	cp := cos0 + z2*(cos2+z2*(cos4+z2*(cos6+z2*cos8)))
+	// Quadrant k: (sin, cos) = (sp, cp), (cp, −sp), (−sp, −cp), (−cp, sp), picked without branches.
+	k := int64(q) & 3
+	pair := [2]float64{sp, cp}
+	return pair[k&1] * quadSign[k], pair[(k+1)&1] * quadSign[(k+1)&3]
+}
+
+// acosApprox returns acos(x) in radians for x in [-1, 1] within 2.2e-8 (Abramowitz & Stegun, Handbook of
+// Mathematical Functions, 4.4.46; checked by TestAcosApprox). It serves the first estimates of crossings,
+// whose accuracy only saves Newton steps.
+func acosApprox(x float64) float64 {
+	ax := math.Abs(x)
+	p := 1.5707963050 + ax*(-0.2145988016+ax*(0.0889789874+ax*(-0.0501743046+ax*(0.0308918810+
+		ax*(-0.0170881256+ax*(0.0066700901+ax*-0.0012624911))))))
+	r := math.Sqrt(1-ax) * p
+	if x < 0 {
+		return math.Pi - r
+	}
+	return r
 }
