@@ -170,8 +170,6 @@ type sunAt struct {
 
 // at evaluates the sun at instant t, on the kernel's grid or on the reference path.
 func (s *eventSolver) at(t float64) sunAt {
-	evalCount++
-	evalBy[evalWhere]++
 	if s.k != nil {
 		return s.atGrid(t)
 	}
@@ -249,9 +247,7 @@ const (
 // solve finds the events of the window [start, end).
 func (s *eventSolver) solve(start, end float64) Day {
 	d := nanDay()
-	evalWhere = 0
 	p0 := s.at(start)
-	evalWhere = 1
 	period := 360 / p0.dh // seconds from one transit to the next, at the start's rate
 
 	// Noon: the first transit in the window. The hour angle advances almost uniformly (its rate changes by
@@ -266,7 +262,6 @@ func (s *eventSolver) solve(start, end float64) Day {
 		d.NoonAltitude = s.noonAltitude(noon)
 	}
 
-	evalWhere = 2
 	// The turning points of the altitude in the window, near the upper culminations (H = 0°) at
 	// up0 + k·period and the lower ones (H = 180°) half a period away; see turnOffset. Their offsets from
 	// the culminations are predicted from the state at the start and then checked by turn.
@@ -290,7 +285,6 @@ func (s *eventSolver) solve(start, end float64) Day {
 		}
 	}
 
-	evalWhere = 3
 	// Crossings on each monotonic piece [a, b].
 	var rises [maxRises]float64
 	var rising [maxRises]bool
@@ -303,13 +297,11 @@ func (s *eventSolver) solve(start, end float64) Day {
 		if i < nt {
 			b = turns[i]
 		} else {
-			evalWhere = 5
 			b = s.at(end)
 		}
 		up := b.s > a.s
 		var g pieceGuess
 		guessed := false
-		evalWhere = 4
 		for j, s0 := range sinEventAltitudes {
 			slot := dusk[j]
 			if up {
