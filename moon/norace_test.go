@@ -1,0 +1,5 @@
+//go:build !race
+
+package moon
+
+const raceEnabled = false
