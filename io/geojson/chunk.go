@@ -88,7 +88,8 @@ func scanFeature(f []byte) featInfo {
 		case keyIs(key, "type"):
 			inf.hasType = true
 			inf.t0, inf.t1 = m.val0, m.val1
-			inf.feature = string(f[m.val0:m.val1]) == `"Feature"`
+			inf.feature = string(f[m.val0:m.val1]) == `"Feature"` ||
+				f[m.val0] == '"' && bytes.IndexByte(f[m.val0:m.val1], '\\') >= 0 && unquote(f[m.val0:m.val1]) == "Feature"
 		case keyIs(key, "properties"):
 			inf.p0, inf.p1 = m.val0, m.val1
 			switch f[m.val0] {

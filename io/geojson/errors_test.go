@@ -293,3 +293,13 @@ func mustReader(t *testing.T, in string, o Options) *Reader {
 	}
 	return rd
 }
+
+// TestEscapedNames: member names and the "Feature" type may be written with
+// JSON escapes.
+func TestEscapedNames(t *testing.T) {
+	f := `{"typ\u0065":"Fe\u0061ture","geom\u0065try":{"type":"Point","coordinates":[13.405,52.52]},"propert\u0069es":{"t\u0069me":"2024-06-21T12:00:00Z"}}`
+	out, sum, err := enrichText(t, collection(f), runOpts{})
+	if err != nil || sum.Written != 1 || !strings.Contains(out, `{"t\u0069me":"2024-06-21T12:00:00Z","sun_altitude_deg":`) {
+		t.Errorf("%v, %+v:\n%s", err, sum, out)
+	}
+}

@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"strings"
+	"sync/atomic"
 )
 
 // countReader counts the bytes read through it, remembers where line ends
@@ -14,8 +15,9 @@ import (
 // value, and keeps the first I/O error of the underlying reader so that a
 // failing input is not mistaken for truncated JSON.
 type countReader struct {
-	r io.Reader
-	n int64 // bytes read so far
+	r    io.Reader
+	n    int64        // bytes read so far
+	done atomic.Int64 // n, for Position on another goroutine
 
 	nl     []int64 // offsets of '\n' at or after the last position asked about
 	head   int     // nl[:head] have been passed
@@ -45,6 +47,7 @@ func (c *countReader) Read(p []byte) (int, error) {
 		i += j + 1
 	}
 	c.n += int64(n)
+	c.done.Store(c.n)
 	if err != nil && err != io.EOF && c.err == nil {
 		c.err = err
 	}

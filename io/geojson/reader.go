@@ -180,7 +180,8 @@ func (rd *Reader) Roles() enrich.Roles {
 func (rd *Reader) Choices() []enrich.Choice { return rd.choices }
 
 // Position reports the bytes read and the input's size.
-func (rd *Reader) Position() (done, total int64) { return rd.cr.n, rd.size }
+// It may be called on another goroutine than Next.
+func (rd *Reader) Position() (done, total int64) { return rd.cr.done.Load(), rd.size }
 
 // Close does nothing: the caller owns the underlying reader.
 func (rd *Reader) Close() error { return nil }
