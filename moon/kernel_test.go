@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"testing"
+	"time"
 
 	"github.com/heliotag/heliotag/solar"
 )
@@ -335,4 +336,9 @@ func TestKernelReuse(t *testing.T) {
 		}
 	}()
 	k.Positions(r.unix, r.lat[:5], r.lon, &out)
+}
+
+// fmtUnix formats a Unix instant as RFC 3339 in UTC.
+func fmtUnix(unix float64) string {
+	return time.Unix(int64(math.Floor(unix)), 0).UTC().Format(time.RFC3339)
 }
