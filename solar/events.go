@@ -236,12 +236,13 @@ const maxDecRate = 0.5 * deg / secondsPerDay
 
 // Limits of the search.
 const (
-	maxTurns    = 8  // turning points of the altitude within a window (at most 5 in 48 h)
-	maxRises    = 8  // sunrise-altitude crossings within a window (at most 4 in 48 h)
-	turnTol     = 2  // seconds: a turning point is located to within this (see turn)
-	rootTol     = 1  // seconds: Newton steps stop below this (the error left is far smaller, see root)
-	transitTol  = 2  // seconds: the last transit step is below this (the error left is far smaller)
-	maxRootIter = 80 // Newton or bisection steps per crossing, a bound never reached in practice
+	maxTurns    = 8    // turning points of the altitude within a window (at most 5 in 48 h)
+	maxRises    = 8    // sunrise-altitude crossings within a window (at most 4 in 48 h)
+	turnTol     = 2    // seconds: a turning point is located to within this (see turn)
+	rootTol     = 1    // seconds: Newton steps stop below this (the error left is far smaller, see root)
+	bisectTol   = 1e-3 // seconds: bisection, where Newton steps fail, stops at a bracket this narrow
+	transitTol  = 2    // seconds: the last transit step is below this (the error left is far smaller)
+	maxRootIter = 80   // Newton or bisection steps per crossing, a bound never reached in practice
 )
 
 // solve finds the events of the window [start, end).
@@ -419,11 +420,11 @@ func (s *eventSolver) turn(t float64, upper bool) (p sunAt, ok bool) {
 
 // root finds the instant in [a.t, b.t] when the altitude's sine crosses s0, given that it does there once:
 // upwards (up) from a.s < s0 <= b.s, or downwards from a.s >= s0 > b.s. It takes Newton steps from the
-// estimate of g (regula falsi if that fails), kept inside the bracket that the altitudes evaluated so
-// far leave (bisecting when a step would leave it), and stops after a Newton step shorter than rootTol: the
-// error left is then about step²·|f″/2f′|, under a millisecond unless the crossing is within a few minutes
-// of a turning point (a grazing crossing, where the altitude stays within 1e-6° of the threshold for
-// seconds anyway).
+// estimate of g (regula falsi if that fails), kept inside the bracket that the altitudes evaluated so far
+// leave (bisecting when a step would leave it, down to bisectTol), and stops after a Newton step shorter
+// than rootTol: the error left is then about step²·|f″/2f′|, under a millisecond unless the crossing is
+// within a few minutes of a turning point (a grazing crossing, where the altitude stays within 1e-6° of the
+// threshold for seconds anyway).
 func (s *eventSolver) root(a, b sunAt, s0 float64, up bool, g *pieceGuess) float64 {
 	lo, hi := a.t, b.t
 	t := g.guess(s0, up)
@@ -445,13 +446,18 @@ func (s *eventSolver) root(a, b sunAt, s0 float64, up bool, g *pieceGuess) float
 		} else {
 			hi = t
 		}
+		// A Newton step may land on a bracket end when it is below the spacing of float64 instants (15 µs
+		// in the years far from 1970).
 		next := t - g/dg
-		newton := next > lo && next < hi
-		if !newton {
+		if next >= lo && next <= hi {
+			if math.Abs(next-t) < rootTol {
+				return next
+			}
+		} else {
 			next = (lo + hi) / 2
-		}
-		if math.Abs(next-t) < rootTol && (newton || hi-lo < rootTol) {
-			return next
+			if hi-lo < bisectTol {
+				return next
+			}
 		}
 		t = next
 	}
