@@ -21,7 +21,7 @@ import (
 
 // DefaultRowGroupRows is the number of rows per output row group when
 // WriterOptions.RowGroupRows is 0.
-const DefaultRowGroupRows = 256 * 1024
+const DefaultRowGroupRows = 128 * 1024
 
 // maxRowGroupBytes starts a new row group early when the current one holds
 // this many compressed bytes (wide rows), bounding the writer's memory.
