@@ -303,3 +303,28 @@ func TestEscapedNames(t *testing.T) {
 		t.Errorf("%v, %+v:\n%s", err, sum, out)
 	}
 }
+
+// TestByteOrderMark: a UTF-8 byte order mark is read past (RFC 8259 §8.1
+// lets a parser ignore it), not written, and counted in byte offsets.
+func TestByteOrderMark(t *testing.T) {
+	const bom = "\xEF\xBB\xBF"
+	for _, seq := range []bool{false, true} {
+		in := collection(okFeature)
+		if seq {
+			in = okFeature + "\n"
+		}
+		out, sum, err := enrichText(t, bom+in, runOpts{read: Options{Sequence: seq}})
+		if err != nil || sum.Written != 1 || strings.HasPrefix(out, bom) {
+			t.Errorf("sequence %v: %v, %+v, output %q", seq, err, sum, out)
+		}
+	}
+	_, _, err := enrichText(t, bom+`{"type":"FeatureCollection","features":[x]}`, runOpts{})
+	var se *SyntaxError
+	if !errors.As(err, &se) || se.Offset != 3+40 || se.Column != 41 {
+		t.Errorf("%v: want byte offset 43, column 41", err)
+	}
+	_, _, err = enrichText(t, bom+okFeature+"\n{]\n", runOpts{read: Options{Sequence: true}})
+	if !errors.As(err, &se) || se.Offset != 3+int64(len(okFeature))+2 || se.Line != 2 || se.Column != 2 {
+		t.Errorf("%v: want byte offset %d, line 2, column 2", err, 3+len(okFeature)+2)
+	}
+}

@@ -42,8 +42,16 @@
 // io/internal/fields): by --time NAME (or --date and --time), or detected by
 // name, in every form and zone mode CSV accepts. String properties are read
 // as their text; a JSON number property is read as written (for --epoch).
-// Property names for detection are those of the first features (up to
-// LookaheadFeatures of them, in order of first appearance).
+// Property names are those of the first features (up to LookaheadFeatures
+// of them, in order of first appearance): detection looks among them, and a
+// name given with --time, --date or --tz-column must be one of them (else it
+// is a usage error that lists them). A feature without the property is a bad
+// row. A later feature that already has a property named like an added
+// column stops the run (--prefix avoids it), as such a column in the first
+// features does before reading on.
+//
+// A UTF-8 byte order mark at the start is read past (RFC 8259 §8.1) and not
+// written; it is counted in byte offsets.
 //
 // # Bad input
 //

@@ -24,6 +24,7 @@ type countReader struct {
 	passed int64   // newlines before the last position asked about
 	lastNL int64   // offset of the last passed newline, -1 if none
 
+	base       int64 // bytes before what the reader sees: a byte order mark
 	valueStart int64 // offset where the current value starts (for MaxFeatureBytes)
 	limit      int64 // 0 disables the size check
 	err        error // first error of r other than io.EOF
@@ -82,7 +83,7 @@ func (c *countReader) ioError() error {
 // syntaxAt builds the fatal error for a problem at offset off.
 func (c *countReader) syntaxAt(off, feature int64, cause error) *SyntaxError {
 	line, col := c.at(off)
-	return &SyntaxError{Offset: off, Line: line, Column: col, Feature: feature, Err: cause}
+	return &SyntaxError{Offset: c.base + off, Line: line, Column: col, Feature: feature, Err: cause}
 }
 
 // firstProblem returns where the JSON value at the start of b goes wrong:

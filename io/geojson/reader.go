@@ -55,6 +55,12 @@ type Reader struct {
 	eof       bool
 }
 
+type peeker interface {
+	io.Reader
+	Peek(n int) ([]byte, error)
+	Discard(n int) (int, error)
+}
+
 type rawMember struct {
 	key   string
 	value []byte
@@ -80,8 +86,20 @@ func NewReader(r io.Reader, size int64, o Options) (*Reader, error) {
 	if s.Lat != "" || s.Lon != "" || s.Geometry != "" {
 		return nil, fmt.Errorf("%w: GeoJSON takes the location from each feature's geometry; --lat, --lon and --geometry do not apply", enrich.ErrUsage)
 	}
-	rd := &Reader{seq: o.Sequence, cr: newCountReader(r), size: size, colIndex: map[string]int{},
-		free: make(chan *chunk, freeChunks)}
+	// RFC 8259 §8.1: a parser may ignore a byte order mark (and a writer
+	// must not add one). It is counted in byte offsets, not in columns.
+	var base int64
+	pr, ok := r.(peeker)
+	if !ok {
+		pr = bufio.NewReader(r)
+	}
+	if b, err := pr.Peek(3); err == nil && string(b) == "\xEF\xBB\xBF" {
+		_, _ = pr.Discard(3)
+		base = 3
+	}
+	rd := &Reader{seq: o.Sequence, cr: newCountReader(pr), size: size, colIndex: map[string]int{},
+		free: make(chan *chunk, freeChunks), off: base, lineStart: base}
+	rd.cr.base = base
 	if rd.seq {
 		rd.br = bufio.NewReaderSize(rd.cr, 1<<20)
 		if b, err := rd.br.Peek(1); err == nil && b[0] == 0x1E {
@@ -181,7 +199,7 @@ func (rd *Reader) Choices() []enrich.Choice { return rd.choices }
 
 // Position reports the bytes read and the input's size.
 // It may be called on another goroutine than Next.
-func (rd *Reader) Position() (done, total int64) { return rd.cr.done.Load(), rd.size }
+func (rd *Reader) Position() (done, total int64) { return rd.cr.base + rd.cr.done.Load(), rd.size }
 
 // Close does nothing: the caller owns the underlying reader.
 func (rd *Reader) Close() error { return nil }
@@ -358,7 +376,7 @@ func (rd *Reader) readFeature(dst []byte) ([]byte, int64, int64, error) {
 	start := end - int64(len(rd.raw))
 	line, _ := rd.cr.at(start)
 	rd.nread++
-	return append(dst, rd.raw...), start, line, nil
+	return append(dst, rd.raw...), rd.cr.base + start, line, nil
 }
 
 // finish reads the end of the features array and the members after it.
