@@ -22,9 +22,18 @@
 // their order and their values (numbers as written, escapes as written),
 // the geometry (3D coordinates included), "id", "bbox" and foreign members
 // are unchanged. Added numbers are JSON numbers, words and text are JSON
-// strings, and empty values are null. A feature whose "properties" is null
-// or missing gets an object holding the added columns (under the keep
-// policy; otherwise such a feature is a bad row and is not written).
+// strings, and empty values are null. Under the keep policy a bad row is
+// written too: a Feature whose "properties" is null or missing gets an object
+// holding the added columns (sun_error among them); an item that is not a
+// Feature object, or whose "properties" is neither an object nor null, has
+// nowhere to hold them and is written as read. With no added columns
+// (--add none) every feature is copied as read.
+//
+// The collection is written as {"type": ..., foreign members, "features": [
+// one feature per line ]} with the members before and after "features" in
+// their input order; the values of those members are copied as read. A text
+// sequence is written one feature per line, each after a record separator
+// with WriterOptions.RS.
 //
 // # Location
 //
@@ -34,7 +43,10 @@
 // MultiLineString), the area-weighted centroid of a Polygon or MultiPolygon,
 // and the point of the first non-empty member of a GeometryCollection.
 // Positions are longitude, latitude (RFC 7946 §3.1.1); a third ordinate
-// (altitude) is kept in the output and not used.
+// (altitude) is kept in the output and not used. Geometries are decoded with
+// orb's geojson.Geometry, except Points, whose two numbers are read directly
+// (the same values, at a sixth of the cost); every position must have at
+// least two numbers, since orb would read a missing one as 0.
 //
 // # Time
 //
@@ -60,7 +72,14 @@
 // a missing, null or non-object "properties", out-of-range coordinates, or an
 // unreadable time is a bad row under the --on-bad-row policy. Malformed JSON
 // is fatal: the error (*SyntaxError) names the byte offset, line and column,
-// and the feature's index.
+// and the feature's index. That holds for a malformed record of a sequence
+// too, although RFC 7464 lets a reader skip it: heliotag could neither write
+// it back nor enrich it, and a silently shorter output is worse.
+//
+// The rejects file (--on-bad-row skip) gets, for each rejected feature, the
+// values of the properties named in Columns (strings as their text, null as
+// empty, other values as JSON) and, in the last column ("feature"), the whole
+// feature's JSON text as read, so that nothing of it is lost.
 package geojson
 
 import (
