@@ -18,9 +18,9 @@ import (
 // at 0 h TD of three days, interpolated; one correction step; standard altitude −0°50′). At longitudes
 // within 60° of Greenwich and latitudes within 60° of the equator, the three events of the UT day are those
 // of its mean solar date. The chapter's sun place is good to about 0.01° and its single correction leaves
-// a few seconds (3.8 s at most in this test when written); the comparison allows 8 s. Two conventions of the library are adapted to: it
-// interpolates the three right ascensions as given, so they are unwrapped across 0 h, and its corrected
-// transit may leave the day, so the results are reduced to it.
+// a few seconds (3.8 s at most in this test when written); the comparison allows 8 s. Two conventions of
+// the library are adapted to: it interpolates the three right ascensions as given, so they are unwrapped
+// across 0 h, and its corrected transit may leave the day, so the results are reduced to it.
 func TestEventsAgainstMeeusRise(t *testing.T) {
 	rng := rand.New(rand.NewPCG(15, 1998))
 	var worst float64
