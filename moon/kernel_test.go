@@ -162,8 +162,12 @@ func TestKernelOptions(t *testing.T) {
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			rng := rand.New(rand.NewPCG(9, 2))
-			r := clusteredBatch(rng, 2000, yearUnix(1950), yearUnix(2050))
-			s := spreadBatch(rng, 200, yearUnix(1950), yearUnix(2050))
+			n := 2000
+			if raceEnabled {
+				n = 400
+			}
+			r := clusteredBatch(rng, n, yearUnix(1950), yearUnix(2050))
+			s := spreadBatch(rng, n/10, yearUnix(1950), yearUnix(2050))
 			r.unix, r.lat, r.lon = append(r.unix, s.unix...), append(r.lat, s.lat...), append(r.lon, s.lon...)
 			var out Positions
 			NewKernel(c.o).Positions(r.unix, r.lat, r.lon, &out)
@@ -222,7 +226,11 @@ func TestKernelBatchIndependence(t *testing.T) {
 	// A kernel that has worked on 20,000 rows spread over 1800–2200 first, then gets the rows shuffled in
 	// batches of random sizes.
 	k = NewKernel(Options{})
-	other := spreadBatch(rng, 20000, yearUnix(1800), yearUnix(2200))
+	warm := 20000
+	if raceEnabled {
+		warm = 6000 // still enough evictions to make the caches grow
+	}
+	other := spreadBatch(rng, warm, yearUnix(1800), yearUnix(2200))
 	k.Positions(other.unix, other.lat, other.lon, &one)
 	perm := rng.Perm(n)
 	shuffled := Positions{make([]float64, n), make([]float64, n), make([]float64, n), make([]Phase, n)}
