@@ -185,8 +185,8 @@ func (c *chunk) locate(f []byte, inf *featInfo, i int, in *enrich.Inputs) error 
 	return nil
 }
 
-// checkFeature reports a feature that is not a Feature or has no
-// properties object, and sets where added members go.
+// checkFeature reports an item that is not a Feature, or a Feature with no
+// properties object.
 func checkFeature(f []byte, inf *featInfo) error {
 	switch {
 	case !inf.object:
