@@ -28,9 +28,11 @@ func BenchmarkParse(b *testing.B) {
 	for _, c := range cases {
 		b.Run(c.name, func(b *testing.B) {
 			b.ReportAllocs()
+			cpu := startCPU()
 			for b.Loop() {
 				sinkStamp, _ = c.p.Parse(c.in)
 			}
+			cpu.report(b, 1)
 			b.ReportMetric(float64(b.N)/b.Elapsed().Seconds(), "values/s")
 		})
 	}
@@ -53,9 +55,11 @@ func BenchmarkParseDateTime(b *testing.B) {
 	for _, c := range cases {
 		b.Run(c.name, func(b *testing.B) {
 			b.ReportAllocs()
+			cpu := startCPU()
 			for b.Loop() {
 				sinkStamp, _ = c.p.ParseDateTime(c.date, c.clock)
 			}
+			cpu.report(b, 1)
 			b.ReportMetric(float64(b.N)/b.Elapsed().Seconds(), "values/s")
 		})
 	}
@@ -67,18 +71,22 @@ func BenchmarkBaseline(b *testing.B) {
 	b.Run("time.Parse_rfc3339", func(b *testing.B) {
 		b.ReportAllocs()
 		var t time.Time
+		cpu := startCPU()
 		for b.Loop() {
 			t, _ = time.Parse(time.RFC3339, "2024-06-21T18:30:00Z")
 		}
+		cpu.report(b, 1)
 		sinkStamp.Year = t.Year()
 		b.ReportMetric(float64(b.N)/b.Elapsed().Seconds(), "values/s")
 	})
 	b.Run("time.Parse_local", func(b *testing.B) {
 		b.ReportAllocs()
 		var t time.Time
+		cpu := startCPU()
 		for b.Loop() {
 			t, _ = time.Parse("2006-01-02 15:04", "2024-03-10 02:30")
 		}
+		cpu.report(b, 1)
 		sinkStamp.Year = t.Year()
 		b.ReportMetric(float64(b.N)/b.Elapsed().Seconds(), "values/s")
 	})
