@@ -315,3 +315,61 @@ func TestEventsSweep(t *testing.T) {
 		"(max |Δt|·altitude rate %.2g°); noon altitude max |Δ| %.2g°", st.presenceDiffers, dts[len(dts)/2],
 		dts[len(dts)*999/1000], st.maxDT, st.maxDTAlt, st.maxNoonAltD)
 }
+
+// FuzzEvents checks any place and window on both paths: they reject the same inputs (Events with an error,
+// Kernel.Day with NaN everywhere); otherwise every event lies in the window, and the two paths agree on
+// each event's presence and within 1 s on its time, except for grazing crossings, where the altitude moves
+// by less than 1e-5° a second, so that the batch path's 1e-6° can decide whether the sun touches the
+// threshold. Run with go test -fuzz FuzzEvents; the seeds run with the tests.
+func FuzzEvents(f *testing.F) {
+	f.Add(unixOf(2003, 10, 17, 7, 0, 0, 0), 24.0, 39.742476, -105.1786)
+	f.Add(unixOf(2024, 6, 21, 0, 0, 0, 0), 24.0, 70.0, 19.0)
+	f.Add(unixOf(2024, 12, 21, 0, 0, 0, 0), 24.0, -80.0, -60.0)
+	f.Add(unixOf(2024, 3, 20, 0, 0, 0, 0), 24.0, 90.0, 0.0)
+	f.Add(unixOf(2024, 9, 22, 0, 0, 0, 0), 25.0, -90.0, 180.0)
+	f.Add(unixOf(2024, 5, 25, 22, 0, 0, 0), 23.0, 66.3, 25.0)
+	f.Add(unixOf(2024, 7, 20, 22, 0, 0, 0), 48.0, 67.0, -150.0)
+	f.Add(unixOf(1600, 1, 1, 0, 0, 0, 0), 24.0, 0.0, -180.0)
+	f.Add(MinUnix, 24.0, 45.0, 45.0)
+	f.Add(MaxUnix-86400, 24.0, -45.0, 45.0)
+	f.Add(0.0, -1.0, 0.0, 0.0)
+	f.Add(math.NaN(), 24.0, 0.0, 0.0)
+	f.Add(0.0, 24.0, 91.0, 0.0)
+	f.Fuzz(func(t *testing.T, start, hours, lat, lon float64) {
+		end := start + hours*3600
+		ref, err := Events(start, end, lat, lon, Options{})
+		fast := NewKernel(Options{}).Day(start, end, lat, lon)
+		if err != nil {
+			if !allNaN(fast) || !allNaN(ref) {
+				t.Fatalf("invalid input (%v): Events %+v, Kernel.Day %+v", err, ref, fast)
+			}
+			return
+		}
+		grazing := func(v float64) bool {
+			p1, _ := Position(v-1, lat, lon, Options{})
+			p2, _ := Position(min(v+1, MaxUnix-1e-3), lat, lon, Options{})
+			return math.Abs(p2.GeometricAltitude-p1.GeometricAltitude) < 2e-5
+		}
+		for _, e := range append(slices.Clone(events), eventByName("noon")) {
+			a, b := e.get(ref), e.get(fast)
+			for _, v := range []float64{a, b} {
+				if !math.IsNaN(v) && !(v >= start && v < end) {
+					t.Fatalf("%s %s outside the window [%s, %s)", e.name, fmtInstant(v), fmtInstant(start), fmtInstant(end))
+				}
+			}
+			switch {
+			case math.IsNaN(a) && math.IsNaN(b):
+			case math.IsNaN(a) != math.IsNaN(b):
+				v := a // the one present
+				if math.IsNaN(v) {
+					v = b
+				}
+				if e.name == "noon" || !grazing(v) {
+					t.Fatalf("%s: Events %s, Kernel.Day %s", e.name, fmtInstant(a), fmtInstant(b))
+				}
+			case !(math.Abs(a-b) <= 1) && (e.name == "noon" || !grazing(a)):
+				t.Fatalf("%s: Events %s, Kernel.Day %s", e.name, fmtInstant(a), fmtInstant(b))
+			}
+		}
+	})
+}
