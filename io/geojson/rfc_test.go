@@ -1,6 +1,7 @@
 package geojson
 
 import (
+	"fmt"
 	"strings"
 	"testing"
 	"time"
@@ -189,6 +190,35 @@ func TestEmptyCollections(t *testing.T) {
 		out, sum, err := enrichText(t, in, runOpts{read: Options{Sequence: true}})
 		if err != nil || out != "" || sum.Read != 0 {
 			t.Errorf("sequence %q: got %q, %d rows, %v; want no output", in, out, sum.Read, err)
+		}
+	}
+}
+
+// TestZoneModes: offset-less local times in properties resolve through every
+// zone mode CSV has; --tz auto looks the zone up at the representative point.
+func TestZoneModes(t *testing.T) {
+	f := func(lon, lat float64, props string) string {
+		return fmt.Sprintf(`{"type":"Feature","geometry":{"type":"Point","coordinates":[%v,%v]},"properties":%s}`, lon, lat, props)
+	}
+	in := collection(
+		f(13.405, 52.52, `{"time":"2024-06-21 12:00","zone":"Europe/Berlin"}`),
+		f(-87.6298, 41.8781, `{"time":"2024-06-21 12:00","zone":"America/Chicago"}`),
+	)
+	utc := collection(
+		f(13.405, 52.52, `{"time":"2024-06-21T10:00:00Z","zone":""}`),
+		f(-87.6298, 41.8781, `{"time":"2024-06-21T17:00:00Z","zone":""}`),
+	)
+	want := decodeFeatures(t, mustEnrich(t, utc, runOpts{}), false)
+	modes := []enrich.Select{{TZColumn: "zone"}, {TZ: "auto"}}
+	if raceEnabled {
+		modes = modes[:1] // building the --tz auto index takes 20 s under -race
+	}
+	for _, sel := range modes {
+		got := decodeFeatures(t, mustEnrich(t, in, runOpts{read: Options{Select: sel}}), false)
+		for i := range want {
+			if a, b := props(t, got[i])["sun_altitude_deg"], props(t, want[i])["sun_altitude_deg"]; a != b {
+				t.Errorf("%+v feature %d: altitude %v, want %v (the same instant written in UTC)", sel, i+1, a, b)
+			}
 		}
 	}
 }

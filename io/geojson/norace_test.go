@@ -1,0 +1,5 @@
+//go:build !race
+
+package geojson
+
+const raceEnabled = false
