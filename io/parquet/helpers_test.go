@@ -34,6 +34,7 @@ type fileSpec struct {
 	noSchema    bool              // do not store the Arrow schema (as non-Arrow writers do)
 	codec       compress.Compression
 	rowGroupLen int64
+	dictLimit   int64 // dictionary page size limit; 0 = the library's
 }
 
 // makeFile writes a Parquet file from a spec with arrow-go's writer.
@@ -66,6 +67,9 @@ func writeRecords(t testing.TB, sc *arrow.Schema, s fileSpec, recs ...arrow.Reco
 	opts := []pq.WriterProperty{pq.WithCompression(codec)}
 	if s.rowGroupLen > 0 {
 		opts = append(opts, pq.WithMaxRowGroupLength(s.rowGroupLen))
+	}
+	if s.dictLimit > 0 {
+		opts = append(opts, pq.WithDictionaryPageSizeLimit(s.dictLimit))
 	}
 	var aopts []pqarrow.WriterOption
 	if !s.noSchema {

@@ -51,18 +51,13 @@ var referenceRows = []struct {
 	{"Hartford after nautical dawn", "2024-06-21T03:00:00-05:00", 41.76, -72.69, "morning_nautical", 0, 0, "USNO, Hartford nautical dawn 02:58"},
 }
 
-// TestReferenceValuesThroughParquet runs the published cases through the
-// Parquet reader and writer (lat/lon float columns, a UTC timestamp column)
-// and through the CSV format (RFC 3339 text), with the SPA report's
-// atmosphere, elevation and ΔT: both give the published values, and the same
-// values as each other (CSV prints 4 decimals).
-func TestReferenceValuesThroughParquet(t *testing.T) {
-	temp, deltaT := 11.0, 67.0
-	spa := func(o *enrich.Options) {
-		o.Solar.Pressure, o.Solar.Temperature, o.Solar.Elevation, o.Solar.DeltaT = 820, &temp, 1830.14, &deltaT
-	}
-
-	// Parquet input.
+// bothFormats runs the reference rows through the Parquet format (lat/lon
+// float columns, a UTC timestamp column) and through the CSV format (RFC 3339
+// text with the publication's offset) with the given column groups, and
+// returns each output column as text by name: Parquet values by valueText,
+// CSV fields as written.
+func bothFormats(t *testing.T, add string, solarOpts func(*enrich.Options)) (pq, cs map[string][]string, plan *enrich.Plan) {
+	t.Helper()
 	mem := memory.NewGoAllocator()
 	sc := arrow.NewSchema([]arrow.Field{fld("lat", f64), fld("lon", f64), fld("timestamp", &arrow.TimestampType{Unit: arrow.Second, TimeZone: "UTC"})}, nil)
 	b := array.NewRecordBuilder(mem, sc)
@@ -82,30 +77,27 @@ func TestReferenceValuesThroughParquet(t *testing.T) {
 	b.Release()
 	in := writeRecords(t, sc, fileSpec{}, rec)
 	rec.Release()
-	pr := enrichFile(t, in, runOpts{solar: spa})
+	pr := enrichFile(t, in, runOpts{add: add, solar: solarOpts})
 	if pr.err != nil {
 		t.Fatal(pr.err)
 	}
 	cmem := checkedMem(t)
 	tbl := readTable(t, pr.out, cmem)
 	defer tbl.Release()
-	get := func(name string) []string {
-		a := column(t, tbl, name, cmem)
-		defer a.Release()
-		var s []string
+	pq = map[string][]string{}
+	for _, f := range tbl.Schema().Fields() {
+		a := column(t, tbl, f.Name, cmem)
 		for i := range a.Len() {
-			s = append(s, valueText(a, i))
+			pq[f.Name] = append(pq[f.Name], valueText(a, i))
 		}
-		return s
+		a.Release()
 	}
-	pAlt, pAz, pPhase := get("sun_altitude_deg"), get("sun_azimuth_deg"), get("sun_phase")
 
-	// The same rows through the CSV format.
 	crd, err := csv.NewReader(strings.NewReader(csvText.String()), 0, csv.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	plan, err := enrich.NewPlan(enrich.PlanOptions{Input: crd.Columns()})
+	plan, err = enrich.NewPlan(enrich.PlanOptions{Add: add, Input: crd.Columns()})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -115,7 +107,9 @@ func TestReferenceValuesThroughParquet(t *testing.T) {
 		t.Fatal(err)
 	}
 	eo := enrich.Options{Plan: plan, Workers: 2, BatchRows: 4}
-	spa(&eo)
+	if solarOpts != nil {
+		solarOpts(&eo)
+	}
 	if _, err := enrich.Run(context.Background(), crd, cw, eo); err != nil {
 		t.Fatal(err)
 	}
@@ -126,12 +120,67 @@ func TestReferenceValuesThroughParquet(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	cs = map[string][]string{}
+	for j, name := range recs[0] {
+		for _, r := range recs[1:] {
+			cs[name] = append(cs[name], r[j])
+		}
+	}
+	return pq, cs, plan
+}
 
+// sameValues compares every added column between the two formats: floats
+// within the CSV's printed precision, words exactly, instants to the second
+// (CSV writes whole seconds in the row's zone, Parquet microseconds in UTC).
+func sameValues(t *testing.T, pq, cs map[string][]string, plan *enrich.Plan) {
+	t.Helper()
+	for _, c := range plan.Columns {
+		for i := range referenceRows {
+			p, q := pq[c.Name][i], cs[c.Name][i]
+			if (p == "") != (q == "") {
+				t.Errorf("%s %s: Parquet %q, CSV %q", referenceRows[i].name, c.Name, p, q)
+				continue
+			}
+			if p == "" {
+				continue
+			}
+			switch c.Kind {
+			case enrich.KindFloat:
+				pv, _ := strconv.ParseFloat(p, 64)
+				qv, _ := strconv.ParseFloat(q, 64)
+				if math.Abs(pv-qv) > 0.51*math.Pow(10, -float64(c.Decimals)) {
+					t.Errorf("%s %s: Parquet %s, CSV %s", referenceRows[i].name, c.Name, p, q)
+				}
+			case enrich.KindInstant:
+				pt, err1 := time.Parse(time.RFC3339Nano, p)
+				qt, err2 := time.Parse(time.RFC3339, q)
+				if err1 != nil || err2 != nil || pt.Sub(qt).Abs() >= time.Second {
+					t.Errorf("%s %s: Parquet %s, CSV %s", referenceRows[i].name, c.Name, p, q)
+				}
+			default:
+				if p != q {
+					t.Errorf("%s %s: Parquet %q, CSV %q", referenceRows[i].name, c.Name, p, q)
+				}
+			}
+		}
+	}
+}
+
+// TestReferenceValuesThroughParquet: the published position (with the SPA
+// report's atmosphere, elevation and ΔT) and phases around published rise,
+// set and twilight times come out of the Parquet format as published, and
+// the same as out of the CSV format.
+func TestReferenceValuesThroughParquet(t *testing.T) {
+	temp, deltaT := 11.0, 67.0
+	spa := func(o *enrich.Options) {
+		o.Solar.Pressure, o.Solar.Temperature, o.Solar.Elevation, o.Solar.DeltaT = 820, &temp, 1830.14, &deltaT
+	}
+	pq, cs, plan := bothFormats(t, "", spa)
 	for i, r := range referenceRows {
-		alt, _ := strconv.ParseFloat(pAlt[i], 64)
-		az, _ := strconv.ParseFloat(pAz[i], 64)
-		if pPhase[i] != r.phase {
-			t.Errorf("%s (%s): Parquet sun_phase %s, want %s", r.name, r.published, pPhase[i], r.phase)
+		alt, _ := strconv.ParseFloat(pq["sun_altitude_deg"][i], 64)
+		az, _ := strconv.ParseFloat(pq["sun_azimuth_deg"][i], 64)
+		if got := pq["sun_phase"][i]; got != r.phase {
+			t.Errorf("%s (%s): Parquet sun_phase %s, want %s", r.name, r.published, got, r.phase)
 		}
 		if r.zenith != 0 {
 			// Published ±0.0003° (SPA abstract), plus the batch kernel's 0.0005° agreement with the reference path.
@@ -139,11 +188,49 @@ func TestReferenceValuesThroughParquet(t *testing.T) {
 				t.Errorf("%s (%s): zenith %.5f azimuth %.5f, published %.5f %.5f", r.name, r.published, 90-alt, az, r.zenith, r.azimuth)
 			}
 		}
-		c := recs[i+1]
-		cAlt, _ := strconv.ParseFloat(c[3], 64)
-		cAz, _ := strconv.ParseFloat(c[4], 64)
-		if math.Abs(cAlt-alt) > 0.00005 || math.Abs(cAz-az) > 0.00005 || c[5] != pPhase[i] {
-			t.Errorf("%s: CSV %s %s %s, Parquet %s %s %s", r.name, c[3], c[4], c[5], pAlt[i], pAz[i], pPhase[i])
+	}
+	sameValues(t, pq, cs, plan)
+}
+
+// TestPublishedEventsThroughParquet: the events group's instants, written as
+// timestamp[us, UTC], match the USNO tables of REFERENCE-VALUES §4 (minutes,
+// ±1 min), and the events and relative groups match the CSV format.
+func TestPublishedEventsThroughParquet(t *testing.T) {
+	pq, cs, plan := bothFormats(t, "events,relative", nil)
+	for _, c := range plan.Columns {
+		if c.Kind == enrich.KindInstant && len(pq[c.Name]) != len(referenceRows) {
+			t.Fatalf("no column %s in the Parquet output", c.Name)
 		}
 	}
+	pst, est := time.FixedZone("PST", -8*3600), time.FixedZone("EST", -5*3600)
+	published := []struct {
+		row    int // index in referenceRows
+		column string
+		at     time.Time
+		source string
+	}{
+		// USNO, San Francisco W122°26′ N37°46′, 2012-06-21 (REFERENCE-VALUES §4).
+		{1, "sun_rise", time.Date(2012, 6, 21, 4, 48, 0, 0, pst), "USNO SF rise"},
+		{1, "sun_set", time.Date(2012, 6, 21, 19, 35, 0, 0, pst), "USNO SF set"},
+		// USNO, Boston 42.32 N 71.09 W, 2024-06-21.
+		{5, "sun_civil_dawn", time.Date(2024, 6, 21, 3, 33, 0, 0, est), "USNO Boston civil dawn"},
+		{5, "sun_civil_dusk", time.Date(2024, 6, 21, 19, 59, 0, 0, est), "USNO Boston civil dusk"},
+		// USNO, Hartford 41.76 N 72.69 W, 2024-06-21.
+		{9, "sun_nautical_dawn", time.Date(2024, 6, 21, 2, 58, 0, 0, est), "USNO Hartford nautical dawn"},
+		{9, "sun_nautical_dusk", time.Date(2024, 6, 21, 20, 48, 0, 0, est), "USNO Hartford nautical dusk"},
+		{9, "sun_astronomical_dawn", time.Date(2024, 6, 21, 2, 5, 0, 0, est), "USNO Hartford astronomical dawn"},
+		{9, "sun_astronomical_dusk", time.Date(2024, 6, 21, 21, 41, 0, 0, est), "USNO Hartford astronomical dusk"},
+	}
+	for _, p := range published {
+		text := pq[p.column][p.row]
+		got, err := time.Parse(time.RFC3339Nano, text)
+		if err != nil {
+			t.Errorf("%s: %s is %q: %v", p.source, p.column, text, err)
+			continue
+		}
+		if d := got.Sub(p.at).Abs(); d > time.Minute {
+			t.Errorf("%s: %s %s, published %s (off by %v; tolerance ±1 min)", p.source, p.column, got, p.at.UTC(), d)
+		}
+	}
+	sameValues(t, pq, cs, plan)
 }

@@ -220,8 +220,9 @@ func compareMetadata(t *testing.T, in, out []byte) {
 	}
 }
 
-// TestAddedColumnTypes checks the types of the added columns, under keep
-// (which adds sun_error) with a zone (which adds sun_time_note).
+// TestAddedColumnTypes checks the types of the added columns (instants as
+// timestamp[us, UTC]), under keep (which adds sun_error) with a zone (which
+// adds sun_time_note).
 func TestAddedColumnTypes(t *testing.T) {
 	sc := arrow.NewSchema([]arrow.Field{
 		{Name: "lat", Type: arrow.PrimitiveTypes.Float64, Nullable: true},
@@ -232,7 +233,7 @@ func TestAddedColumnTypes(t *testing.T) {
 		{"lat": 41.88, "lon": -87.63, "timestamp": "2024-11-03T01:30:00"},
 		{"lat": 41.88, "lon": -87.63, "timestamp": "2024-03-10T02:30:00"},
 		{"lat": 41.88, "lon": -87.63, "timestamp": "2024-06-21T12:00:00"}]`})
-	r := enrichFile(t, in, runOpts{policy: enrich.PolicyKeep, sel: enrich.Select{TZ: "America/Chicago"}})
+	r := enrichFile(t, in, runOpts{policy: enrich.PolicyKeep, sel: enrich.Select{TZ: "America/Chicago"}, add: "position,phase,events"})
 	if r.err != nil {
 		t.Fatal(r.err)
 	}
@@ -244,6 +245,8 @@ func TestAddedColumnTypes(t *testing.T) {
 		"sun_azimuth_deg":     arrow.PrimitiveTypes.Float64,
 		"sun_phase":           &arrow.DictionaryType{IndexType: arrow.PrimitiveTypes.Int32, ValueType: arrow.BinaryTypes.String},
 		"sun_light_condition": &arrow.DictionaryType{IndexType: arrow.PrimitiveTypes.Int32, ValueType: arrow.BinaryTypes.String},
+		"sun_rise":            &arrow.TimestampType{Unit: arrow.Microsecond, TimeZone: "UTC"},
+		"sun_day_length_min":  arrow.PrimitiveTypes.Float64,
 		"sun_time_note":       arrow.BinaryTypes.String,
 		"sun_error":           arrow.BinaryTypes.String,
 	}
@@ -278,20 +281,5 @@ func TestAddedColumnTypes(t *testing.T) {
 	}
 	if !alt.IsNull(1) || !phase.IsNull(1) || alt.IsNull(0) || phase.IsNull(2) {
 		t.Errorf("sun columns must be null exactly on the kept bad row: altitude %v, phase %v", alt, phase)
-	}
-}
-
-// TestInstantColumnBuilder checks the Arrow type and nulls of a KindInstant
-// column (the groups with instants fill it through Results.Instant).
-func TestInstantColumnBuilder(t *testing.T) {
-	mem := checkedMem(t)
-	res := &enrich.Results{Status: []enrich.Status{enrich.RowOK, enrich.RowRejected, enrich.RowKept}}
-	a := buildColumn(mem, enrich.Column{Name: "sun_rise", Field: enrich.FieldRise, Kind: enrich.KindInstant}, res, 2, nil)
-	defer a.Release()
-	if !arrow.TypeEqual(a.DataType(), &arrow.TimestampType{Unit: arrow.Microsecond, TimeZone: "UTC"}) {
-		t.Errorf("instant column type %s, want timestamp[us, tz=UTC]", a.DataType())
-	}
-	if a.Len() != 2 || a.NullN() != 2 {
-		t.Errorf("instant column %v: want 2 rows (the rejected one left out), null where Instant has no value", a)
 	}
 }

@@ -123,16 +123,28 @@ func NewWriter(w io.Writer, rd *Reader, plan *enrich.Plan, o WriterOptions) (*Wr
 		codecs, fallback = nil, c
 	}
 	opts = append(opts, pq.WithCompression(fallback))
+	dicts := rd.dictionaries()
+	added := map[string]enrich.Kind{}
+	for _, c := range plan.Columns {
+		added[c.Name] = c.Kind
+	}
 	for i := range leaves.NumColumns() {
 		col := leaves.Column(i)
 		path := col.ColumnPath().String()
 		if c, ok := codecs[path]; ok {
 			opts = append(opts, pq.WithCompressionFor(path, c))
 		}
-		if pt := col.PhysicalType(); pt == pq.Types.Float || pt == pq.Types.Double {
+		switch pt := col.PhysicalType(); {
+		case pt == pq.Types.Float || pt == pq.Types.Double:
 			// Measured here: float columns of measurements rarely repeat, and a
 			// dictionary attempt costs time and makes the footer vary.
 			opts = append(opts, pq.WithDictionaryFor(path, false))
+		case added[path] == enrich.KindInstant:
+			opts = append(opts, pq.WithDictionaryFor(path, false)) // event times rarely repeat
+		default:
+			if d, ok := dicts[path]; ok {
+				opts = append(opts, pq.WithDictionaryFor(path, d))
+			}
 		}
 	}
 	if rd.allInt96() && !hasInstants(plan) {
@@ -190,6 +202,43 @@ func (rd *Reader) codecs() (map[string]compress.Compression, compress.Compressio
 		}
 	}
 	return m, best
+}
+
+// dictionaries returns, for each input leaf column whose first column chunk
+// records its page encodings, whether the input's writer kept it
+// dictionary-encoded: true when every data page uses the dictionary, false
+// when it fell back to plain pages (high-cardinality values such as
+// timestamps) or never tried. The output follows the input's choice: a
+// dictionary attempt on unique values costs time (a third of a passthrough's
+// CPU on the benchmark file's timestamps, measured here) and saves nothing.
+func (rd *Reader) dictionaries() map[string]bool {
+	md := rd.pf.MetaData()
+	m := map[string]bool{}
+	if md.NumRowGroups() == 0 {
+		return m
+	}
+	rg := md.RowGroup(0)
+	for i := range md.Schema.NumColumns() {
+		cc, err := rg.ColumnChunk(i)
+		if err != nil {
+			continue
+		}
+		stats := cc.EncodingStats()
+		if len(stats) == 0 {
+			continue // not recorded: the writer's default
+		}
+		dict := cc.HasDictionaryPage()
+		for _, st := range stats {
+			switch st.PageType.String() {
+			case "DATA_PAGE", "DATA_PAGE_V2":
+				if st.Encoding != pq.Encodings.PlainDict && st.Encoding != pq.Encodings.RLEDict {
+					dict = false
+				}
+			}
+		}
+		m[md.Schema.Column(i).ColumnPath().String()] = dict
+	}
+	return m
 }
 
 // allInt96 reports whether the input has timestamp columns and stores all

@@ -151,3 +151,50 @@ func TestFloatColumnsPlain(t *testing.T) {
 		}
 	}
 }
+
+// TestDictionaryFollowsInput: a column the input's writer had to store plain
+// (its dictionary outgrew the limit: unique timestamps) is written plain; a
+// column it kept dictionary-encoded keeps a dictionary.
+func TestDictionaryFollowsInput(t *testing.T) {
+	mem := memory.NewGoAllocator()
+	sc := arrow.NewSchema([]arrow.Field{fld("lat", f64), fld("lon", f64), fld("timestamp", tsUTC), fld("site", arrow.PrimitiveTypes.Int64)}, nil)
+	b := array.NewRecordBuilder(mem, sc)
+	for i := range 4000 {
+		b.Field(0).(*array.Float64Builder).Append(40)
+		b.Field(1).(*array.Float64Builder).Append(-80)
+		b.Field(2).(*array.TimestampBuilder).Append(arrow.Timestamp(1.7e12 + int64(i)*61_000))
+		b.Field(3).(*array.Int64Builder).Append(int64(i % 7))
+	}
+	rec := b.NewRecordBatch()
+	b.Release()
+	in := writeRecords(t, sc, fileSpec{dictLimit: 4096}, rec) // 512 int64 values fit the dictionary
+	rec.Release()
+	r := enrichFile(t, in, runOpts{batch: 1000})
+	if r.err != nil {
+		t.Fatal(r.err)
+	}
+	for _, c := range []struct {
+		file []byte
+		what string
+	}{{in, "input"}, {r.out, "output"}} {
+		pf, err := file.NewParquetReader(bytes.NewReader(c.file))
+		if err != nil {
+			t.Fatal(err)
+		}
+		ts, _ := pf.MetaData().RowGroup(0).ColumnChunk(2)
+		site, _ := pf.MetaData().RowGroup(0).ColumnChunk(3)
+		plainTS := false
+		for _, st := range ts.EncodingStats() {
+			if st.PageType.String() == "DATA_PAGE" && st.Encoding.String() == "PLAIN" {
+				plainTS = true
+			}
+		}
+		if !plainTS || !site.HasDictionaryPage() {
+			t.Errorf("%s: timestamp has plain pages %v (want true), site has a dictionary %v (want true)", c.what, plainTS, site.HasDictionaryPage())
+		}
+		if c.what == "output" && ts.HasDictionaryPage() {
+			t.Errorf("output: the timestamp column still tries a dictionary")
+		}
+		pf.Close()
+	}
+}
