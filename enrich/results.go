@@ -123,7 +123,7 @@ func (r *Results) Text(f Field, i int) string {
 // Instant returns a KindInstant value of row i in the row's date zone (UTC
 // when the row has none); ok is false when empty.
 func (r *Results) Instant(f Field, i int) (t time.Time, ok bool) {
-	if r.Status[i] != RowOK {
+	if r.Status[i] != RowOK || i >= len(r.Day) {
 		return time.Time{}, false
 	}
 	d := &r.Day[i]
