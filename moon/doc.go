@@ -23,7 +23,7 @@
 // Two paths compute the same quantities. [Position] is the reference, computing everything for one instant
 // and place. [Kernel] is the batch path: it evaluates the reference's geocentric quantities on an hourly grid
 // aligned to the Unix epoch, interpolates them to each row and does only the observer-dependent part per row;
-// it stays within 0.001° of the reference in altitude and azimuth (about 1e-7° in the tests), and a row's
+// it stays within 0.001° of the reference in altitude and azimuth (altitude about 1e-7° in the tests), and a row's
 // result never depends on the other rows of its batch.
 //
 // The package is pure computation: no I/O and no package-level mutable state. Everything is safe for

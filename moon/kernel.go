@@ -7,24 +7,29 @@ import (
 )
 
 // The batch path evaluates the reference's geocentric quantities ([GeocentricAt]) at grid instants ("nodes",
-// every gridStep seconds of Unix time, aligned to the Unix epoch: node n is at n·gridStep) and, for the cell
-// between two nodes, fits cubic polynomials through the four surrounding nodes (Lagrange interpolation at
-// u = −1, 0, 1, 2 in units of the step). Per row it only evaluates the polynomials and does the topocentric
-// part. Nodes and cells are kept in direct-mapped caches indexed by their number; a node's values depend only
-// on its instant and the options, and a cell's only on its four nodes, so every row's result depends only on
-// its own instant, place and the options: never on the other rows of its batch, their order, or what the
-// kernel computed before.
+// every gridStep seconds of Unix time, aligned to the Unix epoch: node n is at n·gridStep). A cell spans
+// cellNodes steps; for it the batch path fits polynomials of degree cellNodes + 2 through the cellNodes + 3
+// nodes from one step before the cell to one step after it (Lagrange interpolation), in v, the time from the
+// cell's middle in steps. Per row it only evaluates the polynomials and does the topocentric part. Nodes and
+// cells are kept in direct-mapped caches indexed by their number; a node's values depend only on its instant
+// and the options, and a cell's only on its nodes, so every row's result depends only on its own instant,
+// place and the options: never on the other rows of its batch, their order, or what the kernel computed
+// before.
 //
-// Interpolation error for a 1-hour step h: on the middle interval of four nodes a cubic errs by at most
-// (0.5625/24)·(ωh)⁴ times the amplitude of a term of angular frequency ω. The Moon's largest terms (6.3° with
-// a period of 27.6 days, 2.5° of equator-ecliptic conversion at 13.7 days) give under 1e-9°; its right
-// ascension's steady motion is reproduced exactly. TestKernelAccuracy measures the total against the
-// reference path.
+// Interpolation error for a 1-hour step h: inside the cell, the degree-6 polynomial through the 7 nodes errs
+// by at most max|Π(v − vⱼ)|/7! · (ωh)⁷ ≈ 0.0022·(ωh)⁷ times the amplitude of a term of angular frequency ω.
+// The Moon's largest terms (6.3° with a period of 27.6 days, 2.5° of equator-ecliptic conversion at 13.7
+// days) give under 1e-15°; its right ascension's steady motion is reproduced exactly. TestKernelAccuracy
+// measures the total against the reference path.
 const (
-	gridStep     = 3600.0        // seconds between nodes
-	minCellSlots = 1 << 12       // 4096 cells: 171 days of hourly cells without collisions
-	maxCellSlots = 1 << 17       // 131072 cells: 15 years
-	emptySlot    = math.MinInt64 // tag of a slot never filled
+	gridStep     = 3600.0               // seconds between nodes
+	cellNodes    = 4                    // steps per cell
+	nCoef        = cellNodes + 3        // nodes per cell, and coefficients per polynomial
+	minCellSlots = 1 << 10              // 1024 cells: 171 days without collisions
+	maxCellSlots = 1 << 16              // 65536 cells: 30 years
+	nodesPerCell = 2                    // node slots per cell slot (half the span of the cells)
+	cellSpan     = cellNodes * gridStep // seconds per cell
+	emptySlot    = math.MinInt64        // tag of a slot never filled
 )
 
 // node holds the geocentric quantities the batch path needs at one grid instant.
@@ -37,26 +42,28 @@ type node struct {
 	elong          float64 // elongation in longitude, degrees [0, 360)
 }
 
-// cell holds, for the instants t = (k + u)·gridStep, u in [0, 1), the coefficients of cubics in u of the
-// Greenwich hour angle (degrees, not reduced), sin δ, cos δ, sin π, the illuminated fraction and the
-// elongation in longitude (degrees, not reduced).
+// cell holds, for the instants t = (k·cellNodes + cellNodes/2 + v)·gridStep, v in [−cellNodes/2,
+// cellNodes/2), the coefficients of polynomials in v of the Greenwich hour angle (degrees, not reduced),
+// sin δ, cos δ, sin π, the illuminated fraction and the elongation in longitude (degrees, not reduced).
 type cell struct {
 	tag    int64
-	gha    [4]float64
-	sinDec [4]float64
-	cosDec [4]float64
-	sinPi  [4]float64
-	illum  [4]float64
-	elong  [4]float64
+	gha    [nCoef]float64
+	sinDec [nCoef]float64
+	cosDec [nCoef]float64
+	sinPi  [nCoef]float64
+	illum  [nCoef]float64
+	elong  [nCoef]float64
 }
 
 // Kernel is the batch path of the package: it computes the Moon's altitude, azimuth, illuminated fraction and
-// phase for many rows at a time, the same quantities as [Position] to within 0.001° (about 1e-6° in the
-// tests). A row's result depends only on its own instant, place and the kernel's options, not on how rows are
-// batched. It caches geocentric quantities between calls, so one kernel should serve every batch a worker
-// handles: a batch of instants within a year costs no reference evaluation after the first (a year of
-// hourly nodes costs about 8800). Its caches take about 1 MB at first and grow up to about 33 MB, to hold 15
-// years of instants; rows spread more thinly than the grid (one row per hour or fewer) cost up to four
+// phase for many rows at a time, the same quantities as [Position] to within 0.001° (altitude under 1e-6°
+// in the tests, 1900–2100; the one exception is the few hours around 3000-01-01, where the ΔT model steps by
+// 150 s and altitudes may differ by up to about 0.01°). A row's result depends only on its own instant, place
+// and the kernel's options, not on how rows are batched. It caches geocentric quantities between calls, so
+// one kernel should serve every batch a worker handles: a batch of instants within a year then costs no
+// reference evaluation after the first (a year of hourly nodes costs about 8800). Its caches take about
+// 0.5 MB at first and grow, when the rows' instants spread wider, up to about 30 MB to hold 30 years of
+// instants. Rows spread more thinly than one per 4 hours, or over more than 30 years, cost up to seven
 // reference evaluations each.
 // A Kernel is not safe for concurrent use: give each goroutine its own.
 type Kernel struct {
@@ -65,7 +72,7 @@ type Kernel struct {
 	elev      float64 // observer elevation / equatorial radius
 	options   Options // for ΔT at the nodes
 	cells     []cell  // len is a power of two
-	nodes     []node  // len(nodes) == len(cells)
+	nodes     []node  // len is nodesPerCell × len(cells)
 	evictions int     // cells and nodes replaced since the caches were last (re)built
 	scratch   scratch
 }
@@ -97,9 +104,11 @@ func ptrTo(v float64) *float64 { return &v }
 // allocate replaces the caches with empty ones of n slots.
 func (k *Kernel) allocate(n int) {
 	k.cells = make([]cell, n)
-	k.nodes = make([]node, n)
+	k.nodes = make([]node, nodesPerCell*n)
 	for i := range k.cells {
 		k.cells[i].tag = emptySlot
+	}
+	for i := range k.nodes {
 		k.nodes[i].tag = emptySlot
 	}
 	k.evictions = 0
@@ -196,20 +205,20 @@ func (k *Kernel) chunk(unix, lat, lon, alt, az, il []float64, ph []Phase) {
 			invalid++
 			continue
 		}
-		f := t * (1 / gridStep)
+		f := t * (1 / cellSpan)
 		fk := math.Floor(f)
-		u := f - fk
+		v := (f-fk)*cellNodes - cellNodes/2
 		ck := int64(fk)
 		c := &cells[ck&mask]
 		if c.tag != ck {
 			k.fill(c, ck)
 		}
-		h[i] = c.gha[0] + u*(c.gha[1]+u*(c.gha[2]+u*c.gha[3])) + lon[i]
-		sd[i] = c.sinDec[0] + u*(c.sinDec[1]+u*(c.sinDec[2]+u*c.sinDec[3]))
-		cd[i] = c.cosDec[0] + u*(c.cosDec[1]+u*(c.cosDec[2]+u*c.cosDec[3]))
-		sp[i] = c.sinPi[0] + u*(c.sinPi[1]+u*(c.sinPi[2]+u*c.sinPi[3]))
-		il[i] = min(max(c.illum[0]+u*(c.illum[1]+u*(c.illum[2]+u*c.illum[3])), 0), 1)
-		e := c.elong[0] + u*(c.elong[1]+u*(c.elong[2]+u*c.elong[3]))
+		h[i] = horner(&c.gha, v) + lon[i]
+		sd[i] = horner(&c.sinDec, v)
+		cd[i] = horner(&c.cosDec, v)
+		sp[i] = horner(&c.sinPi, v)
+		il[i] = min(max(horner(&c.illum, v), 0), 1)
+		e := horner(&c.elong, v)
 		ph[i] = phaseOf(e - 360*math.Floor(e*(1.0/360)))
 	}
 
@@ -274,41 +283,69 @@ func signBit(v float64) float64 {
 	return float64(math.Float64bits(v) >> 63)
 }
 
-// fill computes cell ck from its four nodes ck−1 … ck+2.
+// horner evaluates the polynomial with coefficients c (constant first) at v.
+func horner(c *[nCoef]float64, v float64) float64 {
+	return c[0] + v*(c[1]+v*(c[2]+v*(c[3]+v*(c[4]+v*(c[5]+v*c[6])))))
+}
+
+// fill computes cell ck from its nodes ck·cellNodes − 1 … (ck + 1)·cellNodes + 1.
 func (k *Kernel) fill(c *cell, ck int64) {
-	var nd [4]node
+	var nd [nCoef]node
+	first := ck*cellNodes - 1
 	for j := range nd {
-		nd[j] = *k.node(ck - 1 + int64(j))
+		nd[j] = *k.node(first + int64(j))
 	}
-	// The hour angle and the elongation are unwrapped relative to the cell's start node (they change by
-	// about 14.5° and 0.5° an hour).
-	g0, e0 := nd[1].gha, nd[1].elong
-	var gha, sinDec, cosDec, sinPi, illum, elong [4]float64
+	// The hour angle and the elongation are unwrapped relative to the node at the cell's middle (they change
+	// by about 14.5° and 0.5° an hour).
+	mid := nd[nCoef/2]
+	var gha, sinDec, cosDec, sinPi, illum, elong [nCoef]float64
 	for j, n := range nd {
-		gha[j] = g0 + wrap180(n.gha-g0)
-		elong[j] = e0 + wrap180(n.elong-e0)
+		gha[j] = mid.gha + wrap180(n.gha-mid.gha)
+		elong[j] = mid.elong + wrap180(n.elong-mid.elong)
 		sinDec[j], cosDec[j], sinPi[j], illum[j] = n.sinDec, n.cosDec, n.sinPi, n.illum
 	}
-	c.gha, c.sinDec, c.cosDec = lagrange(gha), lagrange(sinDec), lagrange(cosDec)
-	c.sinPi, c.illum, c.elong = lagrange(sinPi), lagrange(illum), lagrange(elong)
+	c.gha, c.sinDec, c.cosDec = fit(&gha), fit(&sinDec), fit(&cosDec)
+	c.sinPi, c.illum, c.elong = fit(&sinPi), fit(&illum), fit(&elong)
 	if c.tag != emptySlot {
 		k.evictions++
 	}
 	c.tag = ck
 }
 
-// lagrangeMatrix turns the values f at u = −1, 0, 1, 2 into the coefficients c of the cubic Σ c[i]·uⁱ
-// through them: the inverse of the Vandermonde matrix of those nodes (exact fractions).
-var lagrangeMatrix = [4][4]float64{
-	{0, 1, 0, 0},
-	{-1.0 / 3, -1.0 / 2, 1, -1.0 / 6},
-	{1.0 / 2, -1, 1.0 / 2, 0},
-	{-1.0 / 6, 1.0 / 2, -1.0 / 2, 1.0 / 6},
-}
+// lagrangeMatrix turns the values f at v = −nCoef/2 … nCoef/2 (the cell's nodes, in steps from its middle)
+// into the coefficients c of the polynomial Σ c[i]·vⁱ through them: the inverse of the Vandermonde matrix of
+// those nodes. Each column holds the coefficients of a Lagrange basis polynomial, expanded from its factors
+// (small integers) and divided by its integer denominator, so the entries are the exact fractions rounded
+// once.
+var lagrangeMatrix = func() (m [nCoef][nCoef]float64) {
+	for j := range nCoef {
+		vj := float64(j - nCoef/2)
+		p := [nCoef]float64{1} // Π_{i≠j} (v − vᵢ), constant term first
+		den := 1.0
+		deg := 0
+		for i := range nCoef {
+			if i == j {
+				continue
+			}
+			vi := float64(i - nCoef/2)
+			for d := deg + 1; d > 0; d-- { // p ← p·(v − vi)
+				p[d] = p[d-1] - vi*p[d]
+			}
+			p[0] *= -vi
+			deg++
+			den *= vj - vi
+		}
+		for d := range nCoef {
+			m[d][j] = p[d] / den
+		}
+	}
+	return m
+}()
 
-// lagrange returns the coefficients of the cubic through the values f at u = −1…2.
-func lagrange(f [4]float64) (c [4]float64) {
-	for i, row := range lagrangeMatrix {
+// fit returns the coefficients of the polynomial through the values f at the cell's nodes.
+func fit(f *[nCoef]float64) (c [nCoef]float64) {
+	for i := range lagrangeMatrix {
+		row := &lagrangeMatrix[i]
 		for j, m := range row {
 			c[i] += m * f[j]
 		}

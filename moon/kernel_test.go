@@ -4,6 +4,7 @@ import (
 	"errors"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"testing"
 	"time"
 
@@ -253,18 +254,10 @@ func TestKernelBatchIndependence(t *testing.T) {
 		p    *Positions
 	}{{"one row at a time", &single}, {"shuffled batches, warm kernel", &shuffled}} {
 		if !sameBits(c.p.Altitude, whole.Altitude) || !sameBits(c.p.Azimuth, whole.Azimuth) ||
-			!sameBits(c.p.Illumination, whole.Illumination) || string(phaseBytes(c.p.Phase)) != string(phaseBytes(whole.Phase)) {
+			!sameBits(c.p.Illumination, whole.Illumination) || !slices.Equal(c.p.Phase, whole.Phase) {
 			t.Errorf("%s: results differ from one batch on a new kernel", c.name)
 		}
 	}
-}
-
-func phaseBytes(p []Phase) []byte {
-	b := make([]byte, len(p))
-	for i, v := range p {
-		b[i] = byte(v)
-	}
-	return b
 }
 
 // TestKernelInvalidRows checks that rows failing solar.Check get NaN and PhaseUnknown, that the rows around
