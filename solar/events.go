@@ -168,18 +168,19 @@ type sunAt struct {
 	xi       float64 // sine of the equatorial horizontal parallax
 }
 
-// at evaluates the sun at instant t, on the kernel's grid or on the reference path.
-func (s *eventSolver) at(t float64) sunAt {
+// at evaluates the sun at instant t into p, on the kernel's grid or on the reference path.
+func (s *eventSolver) at(t float64, p *sunAt) {
 	if s.k != nil {
-		return s.atGrid(t)
+		s.atGrid(t, p)
+	} else {
+		s.atReference(t, p)
 	}
-	return s.atReference(t)
 }
 
 // atGrid evaluates the sun at instant t from the kernel's cell of t.
-func (s *eventSolver) atGrid(t float64) sunAt {
+func (s *eventSolver) atGrid(t float64, p *sunAt) {
 	k := s.k
-	p := sunAt{t: t}
+	p.t = t
 	f := t * (1 / gridStep)
 	fk := math.Floor(f)
 	u := f - fk
@@ -203,13 +204,12 @@ func (s *eventSolver) atGrid(t float64) sunAt {
 	ea := -p.cd * sh
 	p.s = up / math.Sqrt(up*up+no*no+ea*ea)
 	p.ds = s.sp*p.dsd + s.cp*(p.dcd*ch-p.cd*sh*p.dh*deg)
-	return p
 }
 
 // atReference evaluates the sun at instant t with GeocentricAt and Geocentric.Topocentric, as Position
 // does; the rates come from referenceRates.
-func (s *eventSolver) atReference(t float64) sunAt {
-	p := sunAt{t: t}
+func (s *eventSolver) atReference(t float64, p *sunAt) {
+	p.t = t
 	g := GeocentricAt(JulianDay(t), s.o.DeltaTAt(t))
 	pos := g.Topocentric(s.lat, s.lon, Options{}) // sea level; the geometric altitude has no refraction
 	p.s = math.Sin(pos.GeometricAltitude * deg)
@@ -220,7 +220,6 @@ func (s *eventSolver) atReference(t float64) sunAt {
 	p.xi = math.Sin(parallaxArcsec / (3600 * g.Distance) * deg)
 	sh, ch := math.Sincos(p.h * deg)
 	p.ds = s.sp*p.dsd + s.cp*(p.dcd*ch-p.cd*sh*p.dh*deg)
-	return p
 }
 
 // polyD returns the quintic c[0] + c[1]u + … + c[5]u⁵ and its derivative at u.
@@ -248,7 +247,8 @@ const (
 // solve finds the events of the window [start, end).
 func (s *eventSolver) solve(start, end float64) Day {
 	d := nanDay()
-	p0 := s.at(start)
+	var p0 sunAt
+	s.at(start, &p0)
 	period := 360 / p0.dh // seconds from one transit to the next, at the start's rate
 
 	// Noon: the first transit in the window. The hour angle advances almost uniformly (its rate changes by
@@ -270,7 +270,7 @@ func (s *eventSolver) solve(start, end float64) Day {
 	nt := 0
 	offUp, okUp := s.turnOffset(p0, true)
 	offLow, okLow := s.turnOffset(p0, false)
-	margin := 600 + 0.25*math.Abs(offUp) + 0.25*math.Abs(offLow) // seconds, for the prediction's error
+	margin := 60 + 0.25*math.Abs(offUp) + 0.25*math.Abs(offLow) // seconds, for the prediction's error
 	tc := up0 - period*math.Ceil((up0-start+margin+period)/period)
 	for upper := true; tc < end+margin+period; tc, upper = tc+period/2, !upper {
 		off, ok := offUp, okUp
@@ -293,15 +293,15 @@ func (s *eventSolver) solve(start, end float64) Day {
 	dawn := [4]*float64{&d.Rise, &d.CivilDawn, &d.NauticalDawn, &d.AstronomicalDawn}
 	dusk := [4]*float64{&d.Set, &d.CivilDusk, &d.NauticalDusk, &d.AstronomicalDusk}
 	a := p0
+	var g pieceGuess
 	for i := 0; i <= nt; i++ {
 		var b sunAt
 		if i < nt {
 			b = turns[i]
 		} else {
-			b = s.at(end)
+			s.at(end, &b)
 		}
 		up := b.s > a.s
-		var g pieceGuess
 		guessed := false
 		for j, s0 := range sinEventAltitudes {
 			slot := dusk[j]
@@ -315,7 +315,8 @@ func (s *eventSolver) solve(start, end float64) Day {
 				continue
 			}
 			if !guessed {
-				g, guessed = s.newPieceGuess(a, b, up), true
+				s.setPieceGuess(&g, &a, &b, up)
+				guessed = true
 			}
 			t := s.root(a, b, s0, up, &g)
 			if !(t >= start && t < end) {
@@ -404,7 +405,7 @@ func (s *eventSolver) turnHourAngle(p sunAt, upper bool) (float64, bool) {
 // altitude turns out to have no turning point there.
 func (s *eventSolver) turn(t float64, upper bool) (p sunAt, ok bool) {
 	for range 8 {
-		p = s.at(t)
+		s.at(t, &p)
 		h, ok := s.turnHourAngle(p, upper)
 		if !ok {
 			return p, false
@@ -434,8 +435,9 @@ func (s *eventSolver) root(a, b sunAt, s0 float64, up bool, g *pieceGuess) float
 			t = (lo + hi) / 2
 		}
 	}
+	var p sunAt
 	for range maxRootIter {
-		p := s.at(t)
+		s.at(t, &p)
 		g, dg := p.s-s0, p.ds
 		if !up {
 			g, dg = -g, -dg
@@ -476,14 +478,16 @@ type pieceGuess struct {
 	ok               bool
 }
 
-func (s *eventSolver) newPieceGuess(a, b sunAt, up bool) (g pieceGuess) {
+// setPieceGuess sets g for the piece [a, b].
+func (s *eventSolver) setPieceGuess(g *pieceGuess, a, b *sunAt, up bool) {
 	ref := a
 	if up {
 		ref = b
 	}
-	g.ref = ref
+	g.ref = *ref
+	g.ok = false
 	if !(s.cp > 1e-9) {
-		return g
+		return
 	}
 	ccd := s.cp * ref.cd
 	inv := 1 / ccd
@@ -495,7 +499,6 @@ func (s *eventSolver) newPieceGuess(a, b sunAt, up bool) (g pieceGuess) {
 	g.dx0 = (-s.sp*ref.dsd*ref.cd - (ref.xi*s.q-s.sp*ref.sd)*s.cp*ref.dcd) * inv2
 	g.invDH = 1 / ref.dh
 	g.ok = true
-	return g
 }
 
 // guess estimates the crossing of s0 on the piece from the hour angle H0 at which the sun would be at s0,
@@ -524,7 +527,7 @@ func (g *pieceGuess) guess(s0 float64, up bool) float64 {
 func (s *eventSolver) transit(t float64) (sunAt, bool) {
 	var p sunAt
 	for range 8 {
-		p = s.at(t)
+		s.at(t, &p)
 		dt := -wrap180(p.h) / p.dh
 		if !(math.Abs(dt) < 43200) {
 			return p, false
@@ -556,8 +559,9 @@ func (s *eventSolver) noonAltitude(p sunAt) float64 {
 	no := s.cp*p.sd - s.sp*p.cd*ch + p.xi*s.pq
 	ea := -p.cd * sh
 	e := math.Atan2(up, math.Sqrt(no*no+ea*ea)) * rad
-	if e >= RefractionCutoff {
-		e += k.refr / math.Tan((e+10.3/(e+5.11))*deg)
+	if e >= RefractionCutoff && k.refr != 0 { // Refraction, with the tangent as a ratio
+		rs, rc := sincosDeg(e + 10.3/(e+5.11))
+		e += k.refr * rc / rs
 	}
 	return e
 }
@@ -570,37 +574,23 @@ func (s *eventSolver) noonAltitude(p sunAt) float64 {
 // whose fields are all NaN; so do invalid kernel options.
 //
 // The kernel remembers the Days it computed, keyed by (lat, lon, start, end) exactly, in a bounded cache
-// (two-way set-associative, from 2048 entries, 280 kB, growing to 16384, 2.3 MB, when the rows revisit more
-// places and dates than it holds), so rows that repeat a few dozen places and dates cost a look-up. A cached
-// Day is the one computed for the same key, so results do not depend on the order of the rows.
+// (four-way set-associative, 2048 entries, 280 kB, growing up to 32768, 4.5 MB, only when the rows revisit
+// more places and dates than it holds), so rows that repeat a few dozen places and dates cost a look-up. A
+// cached Day is the one computed for the same key, so results do not depend on the order of the rows.
 func (k *Kernel) Day(start, end, lat, lon float64) Day {
 	if !k.ok || !validWindow(start, end, lat, lon) {
 		return nanDay()
 	}
 	key := dayKey{math.Float64bits(lat), math.Float64bits(lon), math.Float64bits(start), math.Float64bits(end)}
-	c := &k.days
-	if c.entries == nil {
-		c.allocate(minDaySets)
+	h := key.hash()
+	if d, ok := k.days.get(h, key); ok {
+		return d
 	}
-	c.lookups++
-	c.sinceLookups++
-	c.newEpoch()
-	set := c.set(key)
-	e := c.entries[2*set : 2*set+2 : 2*set+2]
-	if e[0].key == key {
-		c.recent[set] = 0
-		return e[0].day
-	}
-	if e[1].key == key {
-		c.recent[set] = 1
-		return e[1].day
-	}
-	c.misses++
 	k.grow() // between rows only: growing drops the grid's cells
 	s := newEventSolver(lat, lon)
 	s.k = k
 	d := s.solve(start, end)
-	c.store(set, key, d)
+	k.days.put(h, key, d)
 	return d
 }
 

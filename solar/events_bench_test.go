@@ -4,9 +4,9 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"runtime"
 	"slices"
 	"testing"
-	"time"
 )
 
 // meanSolarWindow returns the day window of the date containing instant t at the mean solar time of
@@ -65,12 +65,14 @@ func cameraRows(n int, shuffled bool) dayRows {
 }
 
 // BenchmarkDay measures Kernel.Day, one call per row computing every event, with a kernel reused across
-// iterations as a pipeline worker reuses it across batches:
+// iterations as a pipeline worker reuses it across batches. It reports rows per second of wall-clock time
+// and rows per second of the thread's CPU time (rows/cpu_s; see threadCPU), which depends much less on
+// other jobs sharing the machine:
 //   - crash: every row its own place and date (65536 rows, far more than the Day cache holds, so nearly
 //     every row is computed; the hit ratio is reported);
-//   - camera: 40 places over a year (14,640 place-dates), in time order and shuffled, on a new kernel per
-//     iteration over 2^20 rows ("cold", every place-date computed once per iteration) and on a reused
-//     kernel ("warm").
+//   - camera: 40 places over a year (14,640 place-dates), 2^20 rows in time order and shuffled, on a new
+//     kernel per iteration ("cold": every place-date computed at least once per iteration, the kernel's
+//     grid built) and on a reused kernel ("warm").
 //
 // Run it with BenchmarkKernel for the position-only rate of the same run; BenchmarkDayCompare measures the
 // ratio within one benchmark.
@@ -82,7 +84,10 @@ func BenchmarkDay(b *testing.B) {
 			sink += k.Day(r.start[i], r.end[i], r.lat[i], r.lon[i]).Rise
 		}
 		k.days.misses, k.days.lookups = 0, 0
+		runtime.LockOSThread()
+		defer runtime.UnlockOSThread()
 		b.ReportAllocs()
+		cpu := threadCPU()
 		for b.Loop() {
 			if fresh {
 				k = NewKernel(Options{})
@@ -91,8 +96,10 @@ func BenchmarkDay(b *testing.B) {
 				sink += k.Day(r.start[i], r.end[i], r.lat[i], r.lon[i]).Rise
 			}
 		}
+		cpu = threadCPU() - cpu
 		n := len(r.start)
 		b.ReportMetric(float64(n*b.N)/b.Elapsed().Seconds(), "rows/s")
+		b.ReportMetric(float64(n*b.N)/cpu, "rows/cpu_s")
 		if !fresh {
 			b.ReportMetric(1-float64(k.days.misses)/float64(k.days.lookups), "hit_ratio")
 		}
@@ -104,17 +111,24 @@ func BenchmarkDay(b *testing.B) {
 		if shuffled {
 			order = "shuffled"
 		}
-		r := cameraRows(1<<20, shuffled)
-		b.Run(fmt.Sprintf("camera/%s/cold/n=%d", order, len(r.start)), func(b *testing.B) { run(b, r, true) })
-		b.Run(fmt.Sprintf("camera/%s/warm/n=%d", order, len(r.start)), func(b *testing.B) { run(b, r, false) })
+		for _, fresh := range []bool{true, false} {
+			cache := "warm"
+			if fresh {
+				cache = "cold"
+			}
+			b.Run(fmt.Sprintf("camera/%s/%s/n=%d", order, cache, 1<<20), func(b *testing.B) {
+				run(b, cameraRows(1<<20, shuffled), fresh)
+			})
+		}
 	}
 }
 
-// BenchmarkDayCompare times, in the same loop over the same kernel, the position-only batch path
-// (Kernel.Positions on 65536 random rows of one year, as BenchmarkKernel) and Kernel.Day on 65536
-// crash-like rows and on 2^20 camera-trap-like rows (time-ordered, warm cache), and on a sixteenth of the
-// crash rows the reference path (Events). It reports each rate and the ratios of the Day rates to the
-// position-only rate, all measured in one run on a shared machine.
+// BenchmarkDayCompare times, in the same loop and on one kernel, the position-only batch path
+// (Kernel.Positions on 65536 random rows of one year, the workload of BenchmarkKernel/n=65536), Kernel.Day
+// on 65536 crash-like rows and on 2^20 camera-trap-like rows (time-ordered, warm cache), and the reference
+// path (Events) on a rotating 1/256 of the crash rows. It reports each rate per second of the thread's
+// CPU time (see threadCPU) and the ratios of the Day rates to the position-only rate, all measured in one
+// run; ratios change little with the load of a shared machine.
 func BenchmarkDayCompare(b *testing.B) {
 	unix, lat, lon := benchRows(65536)
 	crash := crashRows(65536, 2)
@@ -129,34 +143,37 @@ func BenchmarkDayCompare(b *testing.B) {
 		}
 	}
 	day(crash)
+	day(crash) // the kernel's grid grows to the rows' ten years
 	day(camera)
-	var tPos, tCrash, tCamera, tRef time.Duration
+	runtime.LockOSThread()
+	defer runtime.UnlockOSThread()
+	var cPos, cCrash, cCamera, cRef float64
 	var refRows int
 	b.ReportAllocs()
 	for i := 0; b.Loop(); i++ {
-		t0 := time.Now()
+		c0 := threadCPU()
 		k.Positions(unix, lat, lon, &out)
-		t1 := time.Now()
+		c1 := threadCPU()
 		day(crash)
-		t2 := time.Now()
+		c2 := threadCPU()
 		day(camera)
-		t3 := time.Now()
-		for j := i % 16; j < len(crash.start); j += 16 * 16 {
+		c3 := threadCPU()
+		for j := i % 256; j < len(crash.start); j += 256 {
 			d, _ := Events(crash.start[j], crash.end[j], crash.lat[j], crash.lon[j], Options{})
 			sink += d.Rise
 			refRows++
 		}
-		t4 := time.Now()
-		tPos, tCrash, tCamera, tRef = tPos+t1.Sub(t0), tCrash+t2.Sub(t1), tCamera+t3.Sub(t2), tRef+t4.Sub(t3)
+		c4 := threadCPU()
+		cPos, cCrash, cCamera, cRef = cPos+c1-c0, cCrash+c2-c1, cCamera+c3-c2, cRef+c4-c3
 	}
-	pos := float64(len(unix)*b.N) / tPos.Seconds()
-	crashRate := float64(len(crash.start)*b.N) / tCrash.Seconds()
-	cameraRate := float64(len(camera.start)*b.N) / tCamera.Seconds()
-	refRate := float64(refRows) / tRef.Seconds()
-	b.ReportMetric(pos, "positions_rows/s")
-	b.ReportMetric(crashRate, "day_crash_rows/s")
-	b.ReportMetric(cameraRate, "day_camera_rows/s")
-	b.ReportMetric(refRate, "events_reference_rows/s")
+	pos := float64(len(unix)*b.N) / cPos
+	crashRate := float64(len(crash.start)*b.N) / cCrash
+	cameraRate := float64(len(camera.start)*b.N) / cCamera
+	refRate := float64(refRows) / cRef
+	b.ReportMetric(pos, "positions_rows/cpu_s")
+	b.ReportMetric(crashRate, "day_crash_rows/cpu_s")
+	b.ReportMetric(cameraRate, "day_camera_rows/cpu_s")
+	b.ReportMetric(refRate, "events_reference_rows/cpu_s")
 	b.ReportMetric(crashRate/pos, "crash/positions")
 	b.ReportMetric(cameraRate/pos, "camera/positions")
 	b.ReportMetric(crashRate/refRate, "crash/reference")

@@ -376,8 +376,8 @@ func sameDay(a, b Day) bool {
 }
 
 // TestKernelDayCache: a Day from the cache is the Day computed for the same inputs, whatever the order of
-// the rows and however full the cache; hits and misses do not allocate once the cache exists; the cache
-// stays within its bound.
+// the rows and however full the cache; the cache grows only when rows revisit more places and dates than it
+// holds, and not beyond its bound; hits and misses do not allocate once it exists.
 func TestKernelDayCache(t *testing.T) {
 	// Rows of 40 places over a year in time order: each place and date is computed once (a miss), every
 	// later row of it is a hit, but for the rare sets where three dates in use collide (allow 1%).
@@ -393,13 +393,9 @@ func TestKernelDayCache(t *testing.T) {
 		t.Errorf("%d misses in %d look-ups of rows with %d distinct places and dates in time order; want one "+
 			"miss per place and date", k.days.misses, k.days.lookups, len(keys))
 	}
-	// Shuffled, they all fit in the grown cache but collide in some sets.
-	shuffled := cameraRows(60000, true)
-	k2 := NewKernel(Options{})
-	for i := range shuffled.start {
-		k2.Day(shuffled.start[i], shuffled.end[i], shuffled.lat[i], shuffled.lon[i])
+	if n := len(k.days.entries); n != dayWays*minDaySets {
+		t.Errorf("time-ordered rows grew the cache to %d entries", n)
 	}
-	t.Logf("time-ordered: %d misses in %d rows; shuffled: %d misses", k.days.misses, k.days.lookups, k2.days.misses)
 	// Each Day equals one computed by a kernel that has never seen any other row.
 	for i := 0; i < len(rows.start); i += 97 {
 		fresh := NewKernel(Options{}).Day(rows.start[i], rows.end[i], rows.lat[i], rows.lon[i])
@@ -407,13 +403,28 @@ func TestKernelDayCache(t *testing.T) {
 			t.Fatalf("row %d: %+v from the cache, %+v computed alone", i, got[i], fresh)
 		}
 	}
-	// Rows that each have their own place and date: the cache grows to its bound and no further.
-	crash := crashRows(3*2*maxDaySets, 9)
+	// Rows that each have their own place and date never come back: the cache does not grow.
+	crash := crashRows(3*dayWays*maxDaySets, 9)
 	for i := range crash.start {
 		k.Day(crash.start[i], crash.end[i], crash.lat[i], crash.lon[i])
 	}
-	if n := len(k.days.entries); n != 2*maxDaySets {
-		t.Errorf("%d cache entries after %d distinct rows, want the bound %d", n, len(crash.start), 2*maxDaySets)
+	if n := len(k.days.entries); n != dayWays*minDaySets {
+		t.Errorf("rows that never repeat grew the cache to %d entries", n)
+	}
+	// The same camera rows shuffled revisit 14,400 places and dates in random order: the cache grows to
+	// its bound and no further, and then most look-ups hit.
+	shuffled := cameraRows(60000, true)
+	for range 3 {
+		misses := k.days.misses
+		for i := range shuffled.start {
+			k.Day(shuffled.start[i], shuffled.end[i], shuffled.lat[i], shuffled.lon[i])
+		}
+		t.Logf("shuffled pass: %d misses in %d rows, %d entries", k.days.misses-misses, len(shuffled.start),
+			len(k.days.entries))
+	}
+	if n := len(k.days.entries); n != dayWays*maxDaySets {
+		t.Errorf("%d cache entries after rows revisiting %d places and dates at random, want the bound %d",
+			n, len(keys), dayWays*maxDaySets)
 	}
 	for i := 0; i < len(rows.start); i += 101 { // still the same values after all those evictions
 		if d := k.Day(rows.start[i], rows.end[i], rows.lat[i], rows.lon[i]); !sameDay(d, got[i]) {
@@ -422,7 +433,9 @@ func TestKernelDayCache(t *testing.T) {
 	}
 	i := 0
 	if a := testing.AllocsPerRun(1000, func() {
-		k.Day(crash.start[i%len(crash.start)], crash.end[i%len(crash.start)], crash.lat[i%len(crash.start)], 7)
+		j := i % len(crash.start)
+		k.Day(crash.start[j], crash.end[j], crash.lat[j], crash.lon[j]) // a hit or a miss
+		k.Day(crash.start[j], crash.end[j], crash.lat[j], crash.lon[j]) // a hit
 		i++
 	}); a != 0 {
 		t.Errorf("Kernel.Day allocates %v times per call", a)
