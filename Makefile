@@ -43,11 +43,16 @@ FUZZTIME ?= 20s
 fuzz:
 	@sh scripts/fuzz.sh $(FUZZTIME)
 
+# Micro-benchmarks beside the code, and end-to-end runs of the command on
+# generated data (benchmarks/e2e.sh prints a markdown table with ratios to a
+# passthrough measured in the same script).
 bench-quick:
-	$(GO) test -run '^$$' -bench . -benchtime 200ms ./solar/ ./io/... ./enrich/...
+	$(GO) test -run '^$$' -bench 'Kernel$$|Compare' -benchtime 200ms ./solar/
+	bash benchmarks/e2e.sh 200000
 
-bench: build
-	$(GO) test -run '^$$' -bench . -benchtime 1s ./solar/ ./io/... ./enrich/...
+bench:
+	$(GO) test -run '^$$' -bench . -benchtime 1s ./solar/ ./moon/ ./io/internal/... ./io/csv/
+	bash benchmarks/e2e.sh 1000000 10000000
 
 clean:
 	rm -rf bin $(OUT)

@@ -285,6 +285,11 @@ func (c *chunk) Encode(res *enrich.Results) error {
 	out := c.rd.pool.Get().(*bytes.Buffer)
 	out.Reset()
 	b := out.Bytes()
+	// Room for the records and the added columns (about 26 bytes each at
+	// most: an RFC 3339 instant with offset), so that appending never grows.
+	if need := len(c.buf) + len(c.ends)*(2+26*len(res.Plan.Columns)); cap(b) < need {
+		b = make([]byte, 0, need)
+	}
 	eol := c.rd.eol()
 	d := c.rd.delim
 	for i := range c.ends {
