@@ -101,8 +101,9 @@ func NewKernel(o Options) *Kernel {
 
 func ptrTo(v float64) *float64 { return &v }
 
-// allocate replaces the caches with empty ones of n slots.
+// allocate replaces the caches with ones of n cell slots, moving over the entries of the old ones.
 func (k *Kernel) allocate(n int) {
+	oldCells, oldNodes := k.cells, k.nodes
 	k.cells = make([]cell, n)
 	k.nodes = make([]node, nodesPerCell*n)
 	for i := range k.cells {
@@ -110,6 +111,17 @@ func (k *Kernel) allocate(n int) {
 	}
 	for i := range k.nodes {
 		k.nodes[i].tag = emptySlot
+	}
+	cellMask, nodeMask := int64(len(k.cells)-1), int64(len(k.nodes)-1)
+	for i := range oldCells {
+		if c := &oldCells[i]; c.tag != emptySlot {
+			k.cells[c.tag&cellMask] = *c
+		}
+	}
+	for i := range oldNodes {
+		if nd := &oldNodes[i]; nd.tag != emptySlot {
+			k.nodes[nd.tag&nodeMask] = *nd
+		}
 	}
 	k.evictions = 0
 }
