@@ -156,8 +156,8 @@ func (c *chunk) Extract(in *enrich.Inputs) {
 			clash = nil
 		} else if err := c.locate(f, &inf, i, in); err != nil {
 			in.Err[i] = err
-		} else {
-			rd.x.Time(rec, i, in.Lat[i], in.Lon[i], in)
+		} else if rd.x.Time(rec, i, in.Lat[i], in.Lon[i], in); in.Err[i] == nil {
+			c.heading(f, &inf, rec, i, in)
 		}
 		for _, nd := range rd.need {
 			rec[nd.idx] = ""
@@ -183,6 +183,22 @@ func (c *chunk) locate(f []byte, inf *featInfo, i int, in *enrich.Inputs) error 
 	}
 	in.Lat[i], in.Lon[i] = p[1], p[0]
 	return nil
+}
+
+// heading reads row i's heading (the glare group): from the --heading
+// property, or with --heading-from-geometry from the direction of the line
+// geometry; NaN when neither is asked for.
+func (c *chunk) heading(f []byte, inf *featInfo, rec []string, i int, in *enrich.Inputs) {
+	if !c.rd.headingFromGeometry {
+		c.rd.x.Heading(rec, i, in)
+		return
+	}
+	h, err := lineHeading(f[inf.g0:inf.g1])
+	if err != nil {
+		in.Err[i] = &enrich.RowError{Column: "geometry", Err: err}
+		return
+	}
+	in.Heading[i] = h
 }
 
 // checkFeature reports an item that is not a Feature, or a Feature with no

@@ -53,6 +53,16 @@ func orbLocation(raw []byte) (orb.Point, error) {
 	return p, nil
 }
 
+// lineHeading returns the direction of a (Multi)LineString geometry at its
+// representative point (geom.Heading); other types have none.
+func lineHeading(raw []byte) (float64, error) {
+	var g ogeojson.Geometry
+	if err := json.Unmarshal(raw, &g); err != nil {
+		return 0, fmt.Errorf("%w: %w", ErrGeometry, err)
+	}
+	return geom.Heading(g.Geometry())
+}
+
 // pointOf reads the first two numbers of a Point's coordinates, which
 // checkGeometry has found to be an array of at least two numbers.
 func pointOf(coords []byte) (orb.Point, error) {

@@ -34,6 +34,7 @@ func enrichText(t testing.TB, input string, o runOpts) (string, enrich.Summary, 
 	plan, err := enrich.NewPlan(enrich.PlanOptions{
 		Add: o.add, Prefix: o.prefix, Input: rd.Columns(),
 		TimeNote:    o.read.Select.ZoneMode(),
+		Heading:     o.read.Select.HasHeading(),
 		ErrorColumn: o.policy == enrich.PolicyKeep,
 	})
 	if err != nil {

@@ -28,7 +28,9 @@ type Reader struct {
 	columns  []string       // cols, then the feature column
 	x        *fields.Extractor
 	need     []need // properties the extractor reads
-	choices  []enrich.Choice
+
+	headingFromGeometry bool // the glare group's heading is the line geometry's direction
+	choices             []enrich.Choice
 
 	nread   int64 // features read from the input (pending included)
 	count   int64 // features handed out in chunks
@@ -134,9 +136,12 @@ func NewReader(r io.Reader, size int64, o Options) (*Reader, error) {
 		return nil, fmt.Errorf("reading the time from the features' properties: %w", err)
 	}
 	rd.x = x
-	for _, i := range x.Indexes() {
-		rd.need = append(rd.need, need{name: rd.cols[i], idx: i})
+	for _, i := range append(x.Indexes(), x.HeadingColumn()) {
+		if i >= 0 {
+			rd.need = append(rd.need, need{name: rd.cols[i], idx: i})
+		}
 	}
+	rd.headingFromGeometry = s.HeadingFromGeometry
 	rd.choices = append(x.Choices(), enrich.Choice{
 		Role: "location", Column: "geometry", Index: len(rd.cols),
 		How: "each feature's geometry (representative point)",

@@ -222,3 +222,32 @@ func TestZoneModes(t *testing.T) {
 		}
 	}
 }
+
+// TestHeading: the glare group's heading comes from a property (--heading)
+// or from the direction of a line geometry (--heading-from-geometry).
+func TestHeading(t *testing.T) {
+	// Morning at the equator on an equinox: the sun stands low in the east.
+	const when = `"2024-03-20T06:30:00Z"`
+	line := func(coords string) string {
+		return `{"type":"Feature","geometry":{"type":"LineString","coordinates":` + coords + `},"properties":{"time":` + when + `,"dir":"EB"}}`
+	}
+	point := `{"type":"Feature","geometry":{"type":"Point","coordinates":[0,0]},"properties":{"time":` + when + `,"dir":"WB"}}`
+	in := collection(line(`[[-0.01,0],[0.01,0]]`), line(`[[0.01,0],[-0.01,0]]`), point)
+
+	byProp := decodeFeatures(t, mustEnrich(t, in, runOpts{read: Options{Select: enrich.Select{Heading: "dir"}}, add: "glare"}), false)
+	for i, want := range []string{"ahead", "ahead", "behind"} { // EB, EB, WB
+		if g := props(t, byProp[i])["sun_glare"]; g != want {
+			t.Errorf("--heading dir, feature %d: sun_glare %v, want %s", i+1, g, want)
+		}
+	}
+	out, sum, err := enrichText(t, in, runOpts{read: Options{Select: enrich.Select{HeadingFromGeometry: true}}, add: "glare", policy: enrich.PolicySkip})
+	if err != nil || sum.Rejected != 1 {
+		t.Fatalf("--heading-from-geometry: %v, %+v; want the Point rejected (it has no direction)", err, sum)
+	}
+	byGeom := decodeFeatures(t, out, false)
+	for i, want := range []string{"ahead", "behind"} { // drawn eastward, drawn westward
+		if g := props(t, byGeom[i])["sun_glare"]; g != want {
+			t.Errorf("--heading-from-geometry, feature %d: sun_glare %v, want %s", i+1, g, want)
+		}
+	}
+}

@@ -35,6 +35,9 @@ func (x *Extractor) pickGeometry(sel enrich.Select) error {
 // location comes from latitude and longitude columns.
 func (x *Extractor) GeometryColumn() int { return x.geom }
 
+// HeadingColumn returns the index of the --heading column, or -1.
+func (x *Extractor) HeadingColumn() int { return x.heading }
+
 // rowGeometry is Row for a WKT geometry column.
 func (x *Extractor) rowGeometry(rec []string, i int, in *enrich.Inputs) {
 	p, err := WKTPoint(rec[x.geom])
