@@ -49,12 +49,8 @@ var ErrWindow = errors.New("invalid day window")
 // when a zone moves its clocks back by a whole day.
 const maxWindow = 2 * secondsPerDay
 
-// eventAltitudes are the thresholds of the events, in the order of eventSolver's slots: sunrise, civil,
-// nautical, astronomical.
-var eventAltitudes = [4]float64{SunriseAltitude, CivilTwilightAltitude, NauticalTwilightAltitude,
-	AstronomicalTwilightAltitude}
-
-// sinEventAltitudes holds the sines of eventAltitudes.
+// sinEventAltitudes holds the sines of the events' thresholds, in the order of solve's slots: sunrise,
+// civil, nautical, astronomical.
 var sinEventAltitudes = [4]float64{math.Sin(SunriseAltitude * deg), math.Sin(CivilTwilightAltitude * deg),
 	math.Sin(NauticalTwilightAltitude * deg), math.Sin(AstronomicalTwilightAltitude * deg)}
 
@@ -103,8 +99,9 @@ func validWindow(start, end, lat, lon float64) bool {
 // which splits the window into pieces on which the altitude only rises or only falls. On each piece a
 // threshold is crossed at most once, and it is crossed exactly when the altitudes at the piece's two ends
 // lie on either side of it; the crossing is then refined by Newton steps kept inside that bracket, from a
-// start found with the hour angle of the threshold. Crossings so close to a turning point that the
-// altitude never moves more than about 1e-9° beyond the threshold (a grazing touch) may be missed.
+// start found with the hour angle of the threshold. A pair of crossings so close to a turning point that
+// the altitude goes beyond the threshold by less than about 1e-6° between them (a grazing touch, lasting
+// seconds) may be missed.
 func Events(start, end, lat, lon float64, o Options) (Day, error) {
 	if err := checkWindow(start, end, lat, lon); err != nil {
 		return nanDay(), err
@@ -123,8 +120,8 @@ func Events(start, end, lat, lon float64, o Options) (Day, error) {
 type eventSolver struct {
 	lat, lon float64
 	sp, cp   float64 // sine and cosine of the latitude
-	q        float64 // the observer's distance from the Earth's centre at sea level, equatorial radii (see chunk)
-	pq       float64 // the north component of the observer's offset from the Earth's centre, equatorial radii
+	q        float64 // the up component of a sea-level observer's offset from the Earth's centre, equatorial radii
+	pq       float64 // minus its north component (the ellipsoid's tilt of the vertical), as in Kernel.Positions
 	k        *Kernel // the grid of the batch path; nil for the reference path
 	o        Options // the reference path's options
 
@@ -569,9 +566,10 @@ func (s *eventSolver) noonAltitude(p sunAt) float64 {
 // Day computes the sun's events at latitude lat and longitude lon (degrees, east positive) during the day
 // window [start, end) (Unix seconds, UTC), the same quantities as [Events] with the kernel's options, on the
 // batch path: the altitudes come from the kernel's grid of geocentric quantities (within 1e-6° of the
-// reference path), and the events agree with those of [Events] within a few milliseconds except for
-// grazing crossings (see the package tests for the bound measured). Inputs that [Events] rejects give a Day
-// whose fields are all NaN; so do invalid kernel options.
+// reference path). Over 10,000 random places and windows in the tests, every event is present on both paths
+// or on neither, and the times agree within 0.03 s (median 0.0001 s); only a grazing crossing, where the
+// altitude moves less than 1e-6° a second, can differ by more. Inputs that [Events] rejects give a Day whose
+// fields are all NaN; so do invalid kernel options.
 //
 // The kernel remembers the Days it computed, keyed by (lat, lon, start, end) exactly, in a bounded cache
 // (four-way set-associative, 2048 entries, 280 kB, growing up to 32768, 4.5 MB, only when the rows revisit
