@@ -59,6 +59,43 @@ func BenchmarkKernelCold(b *testing.B) {
 	b.ReportMetric(float64(n*b.N)/b.Elapsed().Seconds(), "rows/s")
 }
 
+// BenchmarkKernelSpread measures the batch path on rows whose instants spread over 15 years, held by the
+// grown caches of a warm kernel, and on rows spread over 1900–2100, thinner than the grid, whose instants move
+// by 3 days before every batch so that most rows need a new cell, computed from its nodes.
+func BenchmarkKernelSpread(b *testing.B) {
+	for _, c := range []struct {
+		name     string
+		n        int
+		from, to int
+		shift    float64
+	}{
+		{"15y/n=65536", 65536, 2010, 2025, 0},
+		{"1900-2100/n=4096", 4096, 1900, 2100, 3 * 86400},
+	} {
+		b.Run(c.name, func(b *testing.B) {
+			unix, lat, lon := benchRows(c.n)
+			rng := rand.New(rand.NewPCG(8, 8))
+			lo, hi := yearUnix(c.from), yearUnix(c.to)
+			for i := range unix {
+				unix[i] = lo + rng.Float64()*(hi-lo)
+			}
+			k := NewKernel(Options{})
+			var out Positions
+			for range 3 { // let the caches grow and fill
+				k.Positions(unix, lat, lon, &out)
+			}
+			b.ReportAllocs()
+			for b.Loop() {
+				for i := range unix {
+					unix[i] += c.shift
+				}
+				k.Positions(unix, lat, lon, &out)
+			}
+			b.ReportMetric(float64(c.n*b.N)/b.Elapsed().Seconds(), "rows/s")
+		})
+	}
+}
+
 // BenchmarkPosition measures the reference path for one row.
 func BenchmarkPosition(b *testing.B) {
 	unix, lat, lon := benchRows(1024)
