@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"testing"
 	"time"
 )
@@ -189,6 +190,11 @@ func TestEventsIgnoreAtmosphereAndElevation(t *testing.T) {
 		fast := NewKernel(o).Day(start, start+secondsPerDay, 52, 13)
 		if !within(fast.NoonAltitude, pos.Altitude, 0.0005) {
 			t.Errorf("options %+v: Kernel.Day NoonAltitude %v, Position at Noon %v", o, fast.NoonAltitude, pos.Altitude)
+		}
+		for _, e := range append(slices.Clone(events), eventByName("noon")) {
+			if a, b := e.get(want), e.get(fast); !within(a, b, 0.05) {
+				t.Errorf("options %+v: %s: Events %s, Kernel.Day %s", o, e.name, fmtInstant(a), fmtInstant(b))
+			}
 		}
 	}
 }
