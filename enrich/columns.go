@@ -123,7 +123,7 @@ var columnDefs = []columnDef{
 
 // Groups that this build can compute. A group in the contract but not here is
 // refused with a message that says so.
-var supportedGroups = []Group{GroupPosition, GroupPhase, GroupEvents, GroupRelative, GroupGlare}
+var supportedGroups = []Group{GroupPosition, GroupPhase, GroupEvents, GroupRelative, GroupMoon, GroupGlare}
 
 // PlanOptions selects the added columns.
 type PlanOptions struct {

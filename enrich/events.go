@@ -4,6 +4,7 @@ import (
 	"math"
 	"time"
 
+	"github.com/heliotag/heliotag/moon"
 	"github.com/heliotag/heliotag/solar"
 )
 
@@ -12,11 +13,21 @@ import (
 // of local-date windows.
 type worker struct {
 	kernel  *solar.Kernel
+	moon    *moon.Kernel // built on first use
+	opts    solar.Options
 	windows map[windowKey]window
 }
 
 func newWorker(o solar.Options) *worker {
-	return &worker{kernel: solar.NewKernel(o), windows: make(map[windowKey]window)}
+	return &worker{kernel: solar.NewKernel(o), opts: o, windows: make(map[windowKey]window)}
+}
+
+// moonKernel returns the worker's Moon kernel, building it on first use.
+func (w *worker) moonKernel() *moon.Kernel {
+	if w.moon == nil {
+		w.moon = moon.NewKernel(w.opts)
+	}
+	return w.moon
 }
 
 // windowKey names a local calendar date in a zone.

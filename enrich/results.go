@@ -4,6 +4,7 @@ import (
 	"math"
 	"time"
 
+	"github.com/heliotag/heliotag/moon"
 	"github.com/heliotag/heliotag/solar"
 )
 
@@ -16,6 +17,9 @@ type Results struct {
 
 	Altitude, Azimuth []float64
 	Phase             []solar.Phase
+
+	// Moon holds the Moon's altitude, azimuth, illumination and phase.
+	Moon moon.Positions
 
 	// RelAz (degrees) and Glare: the sun relative to the row's heading.
 	RelAz []float64
@@ -67,6 +71,12 @@ func (r *Results) Float(f Field, i int) (v float64, ok bool) {
 		v = r.Azimuth[i]
 	case FieldRelativeAzimuth:
 		v = r.RelAz[i]
+	case FieldMoonAltitude:
+		v = r.Moon.Altitude[i]
+	case FieldMoonAzimuth:
+		v = r.Moon.Azimuth[i]
+	case FieldMoonIllumination:
+		v = r.Moon.Illumination[i]
 	case FieldDayLength:
 		v = r.Day[i].DayLength
 	case FieldNoonAltitude:
@@ -98,6 +108,8 @@ func (r *Results) Word(f Field, i int) string {
 		return r.Phase[i].Condition().String()
 	case FieldGlare:
 		return r.Glare[i].String()
+	case FieldMoonPhase:
+		return r.Moon.Phase[i].String()
 	}
 	return ""
 }

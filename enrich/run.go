@@ -233,6 +233,9 @@ func Run(ctx context.Context, src Source, sink Sink, o Options) (Summary, error)
 			out := solar.Positions{Altitude: res.Altitude, Azimuth: res.Azimuth, Phase: res.Phase}
 			w.kernel.Positions(unix, in.Lat, in.Lon, &out)
 		}
+		if o.Plan.Has(GroupMoon) {
+			w.moonKernel().Positions(unix, in.Lat, in.Lon, &res.Moon)
+		}
 		if o.Plan.Has(GroupGlare) {
 			for i := range n {
 				if res.Status[i] != RowOK {

@@ -31,6 +31,7 @@ Column groups (--add, comma-separated; default position,phase):
   events    sun_rise, sun_set, sun_noon, sun_civil_dawn/dusk, sun_nautical_dawn/dusk,
             sun_astronomical_dawn/dusk, sun_day_length_min, sun_noon_altitude_deg
   relative  sun_minutes_from_rise, sun_minutes_from_set, sun_time_h
+  moon      moon_altitude_deg, moon_azimuth_deg, moon_illumination, moon_phase
   glare     sun_relative_azimuth_deg, sun_glare (needs --heading or --heading-from-geometry)
   all       every group the input can feed
   none      copy the rows unchanged (a passthrough: what reading and writing alone cost)

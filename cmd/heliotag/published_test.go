@@ -5,6 +5,7 @@ import (
 	"context"
 	"encoding/json"
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -184,4 +185,35 @@ func TestPublishedEventsThroughCLI(t *testing.T) {
 			assert.InDelta(t, 0, tm.Sub(want).Seconds(), 60, "%s %s: got %s, published %s", c.source, ch.column, got, ch.want)
 		}
 	}
+}
+
+// TestMoonThroughCLI: the moon group through the whole command at two
+// instants known as common practice: the full moon of 23 April 2024 (23:49
+// UTC, from memory) and the new moon of 8 April 2024 (18:21 UTC, the day of
+// the total solar eclipse over North America, from memory).
+func TestMoonThroughCLI(t *testing.T) {
+	dir := t.TempDir()
+	in := filepath.Join(dir, "moon.csv")
+	require.NoError(t, os.WriteFile(in, []byte("id,lat,lon,timestamp\n"+
+		"full,0,0,2024-04-23T23:49:00Z\n"+
+		"new,0,0,2024-04-08T18:21:00Z\n"), 0o644))
+	out := filepath.Join(dir, "out.csv")
+	var stdout, stderr bytes.Buffer
+	code := run(context.Background(), []string{"enrich", in, "--add", "position,moon", "-o", out}, nil, &stdout, &stderr)
+	require.Equal(t, 0, code, stderr.String())
+	rows := readCSV(t, out)
+	require.Len(t, rows, 3)
+	col := func(r int, name string) string { return rows[r][indexOf(t, rows[0], name)] }
+	num := func(r int, name string) float64 {
+		v, err := strconv.ParseFloat(col(r, name), 64)
+		require.NoError(t, err, name)
+		return v
+	}
+	assert.Greater(t, num(1, "moon_illumination"), 0.995)
+	assert.Equal(t, "full", col(1, "moon_phase"))
+	// A full moon stands roughly opposite the sun (common practice).
+	sep := math.Mod(num(1, "moon_azimuth_deg")-num(1, "sun_azimuth_deg")+360, 360)
+	assert.InDelta(t, 180, sep, 20, "full moon opposite the sun in azimuth")
+	assert.Less(t, num(2, "moon_illumination"), 0.005)
+	assert.Equal(t, "new", col(2, "moon_phase"))
 }
