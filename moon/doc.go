@@ -8,9 +8,9 @@
 //   - [Options] are solar's: pressure and temperature for refraction, NoRefraction, elevation, ΔT.
 //
 // The Moon's geocentric place is Meeus, Astronomical Algorithms (2nd ed., 1998), chapter 47: the published
-// truncation of the ELP-2000/82 theory, about 10″ in longitude and 4″ in latitude near the present (its error
-// grows far from 2000). Nutation, the obliquity, the sidereal time and the Sun's place are solar's
-// ([solar.GeocentricAt], NREL/TP-560-34302). The topocentric position applies the Moon's parallax (up to
+// truncation of the ELP-2000/82 theory, good to about 10″ in longitude and 4″ in latitude near the present
+// (the book's figures, from memory; the error grows far from 2000). Nutation, the obliquity, the sidereal
+// time and the Sun's place are solar's ([solar.GeocentricAt], NREL/TP-560-34302). The topocentric position applies the Moon's parallax (up to
 // about 1°) for an observer on the Earth ellipsoid, then refraction exactly as for the sun
 // ([solar.Refraction]: the same options, none below the same cutoff). The phase angle and the illuminated
 // fraction follow chapter 48 (eq. 48.1–48.3), geocentric.
