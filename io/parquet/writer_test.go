@@ -53,43 +53,41 @@ func generated(t testing.TB, n int, seed uint64) []byte {
 // counts), with rejected rows shifting the batches and a nested column, over
 // several pages and row groups.
 func TestOutputIndependentOfBatching(t *testing.T) {
-	in := generated(t, 40_000, 1)
+	in := generated(t, 12_000, 1)
 	var first []byte
-	for _, batch := range []int{1000, 4096, 10007} {
-		for _, workers := range []int{1, 2} {
-			r := enrichFile(t, in, runOpts{policy: enrich.PolicySkip, batch: batch, workers: workers,
-				writer: WriterOptions{RowGroupRows: 15_000, dataPageSize: 16 << 10}})
-			if r.err != nil {
-				t.Fatal(r.err)
-			}
-			if first == nil {
-				first = r.out
-				pf, err := file.NewParquetReader(bytes.NewReader(r.out))
-				if err != nil {
-					t.Fatal(err)
-				}
-				if pf.NumRowGroups() != 3 || pf.NumRows() != r.sum.Written {
-					t.Errorf("%d row groups, %d rows; want 3 groups of at most 15,000 rows, %d rows", pf.NumRowGroups(), pf.NumRows(), r.sum.Written)
-				}
-				// Several data pages per column chunk: page boundaries are tested too.
-				pr, err := pf.RowGroup(0).GetColumnPageReader(0)
-				if err != nil {
-					t.Fatal(err)
-				}
-				pages := 0
-				for pr.Next() {
-					pages++
-				}
-				if pages < 4 {
-					t.Errorf("%d pages in the first column chunk; the test needs several", pages)
-				}
-				pf.Close()
-				continue
-			}
-			if !bytes.Equal(first, r.out) {
-				t.Errorf("batch %d, %d workers: output differs from batch 1000, 1 worker", batch, workers)
-			}
+	for _, run := range []struct{ batch, workers int }{{1000, 1}, {4103, 2}, {997, 2}} {
+		r := enrichFile(t, in, runOpts{policy: enrich.PolicySkip, batch: run.batch, workers: run.workers,
+			writer: WriterOptions{RowGroupRows: 5000, dataPageSize: 4 << 10}})
+		if r.err != nil {
+			t.Fatal(r.err)
 		}
+		if first != nil {
+			if !bytes.Equal(first, r.out) {
+				t.Errorf("batch %d, %d workers: output differs from batch 1000, 1 worker", run.batch, run.workers)
+			}
+			continue
+		}
+		first = r.out
+		pf, err := file.NewParquetReader(bytes.NewReader(r.out))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if pf.NumRowGroups() != 3 || pf.NumRows() != r.sum.Written {
+			t.Errorf("%d row groups, %d rows; want 3 groups of at most 5,000 rows, %d rows", pf.NumRowGroups(), pf.NumRows(), r.sum.Written)
+		}
+		// Several data pages per column chunk: page boundaries are tested too.
+		pr, err := pf.RowGroup(0).GetColumnPageReader(0)
+		if err != nil {
+			t.Fatal(err)
+		}
+		pages := 0
+		for pr.Next() {
+			pages++
+		}
+		if pages < 4 {
+			t.Errorf("%d pages in the first column chunk; the test needs several", pages)
+		}
+		pf.Close()
 	}
 }
 
