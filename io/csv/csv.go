@@ -61,6 +61,7 @@ type Reader struct {
 	counter *countingReader
 	size    int64
 	pool    *sync.Pool // output buffers
+	inPool  *sync.Pool // chunk input buffers, returned once a chunk is written
 }
 
 type countingReader struct {
@@ -88,6 +89,7 @@ func NewReader(r io.Reader, size int64, o Options) (*Reader, error) {
 	cr := &countingReader{r: r}
 	rd := &Reader{r: bufio.NewReaderSize(cr, 1<<20), delim: d, counter: cr, size: size}
 	rd.pool = &sync.Pool{New: func() any { return new(bytes.Buffer) }}
+	rd.inPool = &sync.Pool{New: func() any { return new([]byte) }}
 	if b, err := rd.r.Peek(3); err == nil && bytes.Equal(b, []byte{0xEF, 0xBB, 0xBF}) {
 		rd.bom = true
 		_, _ = rd.r.Discard(3)
@@ -205,7 +207,10 @@ func (rd *Reader) Next(ctx context.Context, max int) (enrich.Chunk, error) {
 	if err := ctx.Err(); err != nil {
 		return nil, context.Cause(ctx)
 	}
-	c := &chunk{rd: rd, buf: make([]byte, 0, 64*max)}
+	c := &chunk{rd: rd, buf: (*rd.inPool.Get().(*[]byte))[:0]}
+	if cap(c.buf) == 0 {
+		c.buf = make([]byte, 0, 64*max)
+	}
 	for len(c.ends) < max {
 		startLine := rd.line + 1
 		before := len(c.buf)
@@ -399,6 +404,11 @@ func (w *Writer) Write(_ context.Context, ch enrich.Chunk) error {
 	}
 	_, err := w.w.Write(c.out.Bytes())
 	c.rd.pool.Put(c.out)
+	// The chunk is done: nothing refers to its records after Write (the
+	// rejects file was written before, Inputs hold no views into them).
+	buf := c.buf[:0]
+	c.buf = nil
+	c.rd.inPool.Put(&buf)
 	c.out = nil
 	if err != nil {
 		return fmt.Errorf("writing output: %w", err)
