@@ -22,6 +22,7 @@ import (
 	"io"
 	"strings"
 	"sync"
+	"sync/atomic"
 	"time"
 
 	"github.com/heliotag/heliotag/enrich"
@@ -64,14 +65,16 @@ type Reader struct {
 	inPool  *sync.Pool // chunk input buffers, returned once a chunk is written
 }
 
+// countingReader counts the bytes read; the count is read from the writer
+// goroutine (progress), so it is atomic.
 type countingReader struct {
 	r io.Reader
-	n int64
+	n atomic.Int64
 }
 
 func (c *countingReader) Read(p []byte) (int, error) {
 	n, err := c.r.Read(p)
-	c.n += int64(n)
+	c.n.Add(int64(n))
 	return n, err
 }
 
@@ -197,7 +200,7 @@ func (rd *Reader) Roles() enrich.Roles { return rd.x.Roles() }
 func (rd *Reader) Choices() []enrich.Choice { return rd.x.Choices() }
 
 // Position reports bytes read and the input size (for progress).
-func (rd *Reader) Position() (done, total int64) { return rd.counter.n, rd.size }
+func (rd *Reader) Position() (done, total int64) { return rd.counter.n.Load(), rd.size }
 
 // Close does nothing: the caller owns the underlying reader.
 func (rd *Reader) Close() error { return nil }
