@@ -29,7 +29,7 @@ func runInspect(ctx context.Context, args []string, stdin io.Reader, stdout, std
 	fs := flag.NewFlagSet("inspect", flag.ContinueOnError)
 	fs.SetOutput(stderr)
 	var o job.Options
-	fs.StringVar(&o.From, "from", "", "input `FORMAT`: csv|tsv (default: from the extension)")
+	fs.StringVar(&o.From, "from", "", "input `FORMAT`: csv|tsv|geojson|geojsonseq|parquet (default: from the extension)")
 	addSelectFlags(fs, &o.Select, &o.Delimiter)
 	rows := fs.Int("rows", 5, "number of sample `ROWS` to parse")
 	fs.Usage = func() {
