@@ -51,6 +51,9 @@ type extractor struct {
 	text               []int          // columns rendered for the text path
 	zoneNames          interner
 	timeCol, tzColName string
+
+	heading             int  // --heading column, -1 when unused
+	headingFromGeometry bool // --heading-from-geometry
 }
 
 // Role names in enrich.Choice, as package fields writes them.
@@ -98,6 +101,9 @@ func newExtractor(sc *arrow.Schema, names []string, geoJSON string, sel enrich.S
 		}
 	}
 	if err := e.chooseTime(sc, sel); err != nil {
+		return nil, err
+	}
+	if err := e.chooseHeading(sc, sel); err != nil {
 		return nil, err
 	}
 	return e, nil
@@ -252,6 +258,7 @@ func (e *extractor) extract(rec arrow.RecordBatch, in *enrich.Inputs) {
 	case timeText:
 		e.readText(rec, tz, in)
 	}
+	e.readHeading(rec, in)
 }
 
 // rowZone is row i's --tz-column value ("" without one), interned so that

@@ -126,7 +126,7 @@ func enrichFile(t testing.TB, in []byte, o runOpts) runResult {
 	}
 	defer rd.Close()
 	plan, err := enrich.NewPlan(enrich.PlanOptions{Add: o.add, Input: rd.Columns(),
-		TimeNote: o.sel.ZoneMode(), ErrorColumn: o.policy == enrich.PolicyKeep})
+		TimeNote: o.sel.ZoneMode(), ErrorColumn: o.policy == enrich.PolicyKeep, Heading: o.sel.HasHeading()})
 	if err != nil {
 		t.Fatal(err)
 	}
