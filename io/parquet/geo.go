@@ -231,15 +231,8 @@ func (g *geoColumn) read(a arrow.Array, in *enrich.Inputs) {
 		}
 		return
 	}
-	var value func(i int) []byte
-	switch v := a.(type) {
-	case *array.Binary:
-		value = v.Value
-	case *array.LargeBinary:
-		value = v.Value
-	case *array.BinaryView:
-		value = v.Value
-	default:
+	value, ok := binaryValues(a)
+	if !ok {
 		fillErr(in.Err, &enrich.RowError{Column: g.name, Err: fmt.Errorf("%w: %s", ErrColumnType, a.DataType())})
 		return
 	}
@@ -255,6 +248,20 @@ func (g *geoColumn) read(a arrow.Array, in *enrich.Inputs) {
 		}
 		set(i, x, y)
 	}
+}
+
+// binaryValues returns the accessor of a binary array's values; ok is false
+// for other types.
+func binaryValues(a arrow.Array) (value func(i int) []byte, ok bool) {
+	switch v := a.(type) {
+	case *array.Binary:
+		return v.Value, true
+	case *array.LargeBinary:
+		return v.Value, true
+	case *array.BinaryView:
+		return v.Value, true
+	}
+	return nil, false
 }
 
 // wkbPoint returns the representative point (see geom.Representative) of a

@@ -5,7 +5,6 @@ import (
 	"math"
 
 	"github.com/apache/arrow-go/v18/arrow"
-	"github.com/apache/arrow-go/v18/arrow/array"
 	"github.com/paulmach/orb/encoding/wkb"
 
 	"github.com/heliotag/heliotag/enrich"
@@ -69,15 +68,8 @@ func (e *extractor) readHeading(rec arrow.RecordBatch, in *enrich.Inputs) {
 		}
 	case e.headingFromGeometry:
 		a := storage(rec.Column(e.geo.index))
-		var value func(i int) []byte
-		switch v := a.(type) {
-		case *array.Binary:
-			value = v.Value
-		case *array.LargeBinary:
-			value = v.Value
-		case *array.BinaryView:
-			value = v.Value
-		default:
+		value, ok := binaryValues(a)
+		if !ok {
 			return // read has reported the column type already
 		}
 		for i := range a.Len() {
