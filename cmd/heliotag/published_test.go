@@ -5,6 +5,7 @@ import (
 	"context"
 	"encoding/json"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -216,4 +217,32 @@ func TestMoonThroughCLI(t *testing.T) {
 	assert.InDelta(t, 180, sep, 20, "full moon opposite the sun in azimuth")
 	assert.Less(t, num(2, "moon_illumination"), 0.005)
 	assert.Equal(t, "new", col(2, "moon_phase"))
+}
+
+// TestFullDevice: output that cannot be written (stdout on /dev/full, or
+// -o /dev/full) is a fatal error with a clear message and exit code 2.
+func TestFullDevice(t *testing.T) {
+	full, err := os.OpenFile("/dev/full", os.O_WRONLY, 0)
+	if err != nil {
+		t.Skip("no /dev/full on this system")
+	}
+	defer full.Close()
+	dir := t.TempDir()
+	in := filepath.Join(dir, "in.csv")
+	var b strings.Builder
+	b.WriteString("id,lat,lon,timestamp\n")
+	for i := range 50000 { // more than the writer's buffer, so a write reaches the device
+		fmt.Fprintf(&b, "%d,51.5,-0.12,2024-06-21T12:00:00Z\n", i)
+	}
+	require.NoError(t, os.WriteFile(in, []byte(b.String()), 0o644))
+	var stderr bytes.Buffer
+	code := run(context.Background(), []string{"enrich", in}, nil, full, &stderr)
+	assert.Equal(t, 2, code)
+	assert.Contains(t, stderr.String(), "writing output")
+	assert.Contains(t, stderr.String(), "no space left on device")
+
+	stderr.Reset()
+	code = run(context.Background(), []string{"enrich", in, "--force", "-o", "/dev/full"}, nil, io.Discard, &stderr)
+	assert.Equal(t, 2, code)
+	assert.Contains(t, stderr.String(), "/dev/full")
 }
