@@ -256,6 +256,9 @@ func (x *Extractor) Time(rec []string, i int, lat, lon float64, in *enrich.Input
 		st, err = x.parser.ParseDateTime(rec[x.date], rec[x.clock])
 	}
 	if err != nil {
+		if errors.Is(err, stamp.ErrEmpty) {
+			err = fmt.Errorf("%w; expected a timestamp such as 2024-06-21T18:30:00Z or 2024-06-21 18:30", err)
+		}
 		in.Err[i] = &enrich.RowError{Column: col, Err: err}
 		return
 	}
