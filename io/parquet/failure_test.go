@@ -119,3 +119,35 @@ func TestNotParquet(t *testing.T) {
 		t.Fatalf("error %v, want ErrFile", err)
 	}
 }
+
+// TestPositionDuringRun: progress is read from the writing goroutine while
+// the reader advances (run under -race), and ends at the file's size.
+func TestPositionDuringRun(t *testing.T) {
+	in := generated(t, 5000, 6)
+	mem := checkedMem(t)
+	rd, err := NewReader(bytes.NewReader(in), Options{Allocator: mem})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer rd.Close()
+	plan, err := enrich.NewPlan(enrich.PlanOptions{Input: rd.Columns()})
+	if err != nil {
+		t.Fatal(err)
+	}
+	w, err := NewWriter(io.Discard, rd, plan, WriterOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var last int64
+	_, err = enrich.Run(context.Background(), rd, w, enrich.Options{Plan: plan, Policy: enrich.PolicySkip, Workers: 2, BatchRows: 500,
+		OnProgress: func(int64) { last, _ = rd.Position() }})
+	if cerr := w.Close(); err == nil {
+		err = cerr
+	}
+	if err != nil {
+		t.Fatal(err)
+	}
+	if done, total := rd.Position(); done != total || total != int64(len(in)) || last > total {
+		t.Errorf("position %d of %d (last seen %d); want the whole %d bytes", done, total, last, len(in))
+	}
+}

@@ -27,6 +27,7 @@ import (
 	"fmt"
 	"io"
 	"sync"
+	"sync/atomic"
 
 	"github.com/apache/arrow-go/v18/arrow"
 	"github.com/apache/arrow-go/v18/arrow/memory"
@@ -82,9 +83,9 @@ type Reader struct {
 	names  []string
 	kv     []keyValue // the file's key-value metadata, in order
 	size   int64
-	rows   int64 // total rows in the file
-	read   int64 // rows handed out so far
-	batch  int   // the record reader's batch size
+	rows   int64        // total rows in the file
+	read   atomic.Int64 // rows handed out so far (Position reads it from another goroutine)
+	batch  int          // the record reader's batch size
 	ext    *extractor
 
 	pending    arrow.RecordBatch // a decoded batch not yet handed out in full
@@ -198,7 +199,7 @@ func (rd *Reader) Position() (done, total int64) {
 	if rd.rows == 0 {
 		return 0, rd.size
 	}
-	return int64(float64(rd.size) * float64(rd.read) / float64(rd.rows)), rd.size
+	return int64(float64(rd.size) * float64(rd.read.Load()) / float64(rd.rows)), rd.size
 }
 
 // Next decodes up to max rows. The first call fixes the decoder's batch size
@@ -224,10 +225,10 @@ func (rd *Reader) Next(ctx context.Context, max int) (c enrich.Chunk, err error)
 		}
 		if !rd.rr.Next() {
 			if err := rd.rr.Err(); err != nil && err != io.EOF {
-				return nil, fmt.Errorf("%w: decoding rows after row %d: %w", ErrFile, rd.read, err)
+				return nil, fmt.Errorf("%w: decoding rows after row %d: %w", ErrFile, rd.read.Load(), err)
 			}
-			if rd.read != rd.rows {
-				return nil, fmt.Errorf("%w: the footer declares %d rows but %d could be read", ErrFile, rd.rows, rd.read)
+			if got := rd.read.Load(); got != rd.rows {
+				return nil, fmt.Errorf("%w: the footer declares %d rows but %d could be read", ErrFile, rd.rows, got)
 			}
 			return nil, io.EOF
 		}
@@ -256,7 +257,7 @@ func (rd *Reader) Next(ctx context.Context, max int) (c enrich.Chunk, err error)
 	rd.mu.Lock()
 	rd.live[ch] = struct{}{}
 	rd.mu.Unlock()
-	rd.read += n
+	rd.read.Add(n)
 	return ch, nil
 }
 
