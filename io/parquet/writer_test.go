@@ -9,8 +9,10 @@ import (
 	"github.com/apache/arrow-go/v18/arrow"
 	"github.com/apache/arrow-go/v18/arrow/array"
 	"github.com/apache/arrow-go/v18/arrow/memory"
+	pq "github.com/apache/arrow-go/v18/parquet"
 	"github.com/apache/arrow-go/v18/parquet/compress"
 	"github.com/apache/arrow-go/v18/parquet/file"
+	"github.com/apache/arrow-go/v18/parquet/pqarrow"
 
 	"github.com/heliotag/heliotag/enrich"
 )
@@ -194,5 +196,53 @@ func TestDictionaryFollowsInput(t *testing.T) {
 			t.Errorf("output: the timestamp column still tries a dictionary")
 		}
 		pf.Close()
+	}
+}
+
+// TestInt96Kept: legacy INT96 timestamps stay INT96 unless the output adds
+// instant columns (which are INT64 microseconds), when they become INT64
+// nanoseconds; the Arrow type is timestamp[ns] either way.
+func TestInt96Kept(t *testing.T) {
+	mem := memory.NewGoAllocator()
+	sc := arrow.NewSchema([]arrow.Field{fld("lat", f64), fld("lon", f64), fld("timestamp", &arrow.TimestampType{Unit: arrow.Nanosecond, TimeZone: "UTC"})}, nil)
+	b := array.NewRecordBuilder(mem, sc)
+	b.Field(0).(*array.Float64Builder).Append(40)
+	b.Field(1).(*array.Float64Builder).Append(-80)
+	b.Field(2).(*array.TimestampBuilder).Append(arrow.Timestamp(1.7e18))
+	rec := b.NewRecordBatch()
+	b.Release()
+	defer rec.Release()
+	var buf bytes.Buffer
+	w, err := pqarrow.NewFileWriter(sc, &buf, pq.NewWriterProperties(), pqarrow.NewArrowWriterProperties(pqarrow.WithDeprecatedInt96Timestamps(true)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := w.Write(rec); err != nil {
+		t.Fatal(err)
+	}
+	if err := w.Close(); err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		add  string
+		want pq.Type
+	}{{"", pq.Types.Int96}, {"position,events", pq.Types.Int64}} {
+		r := enrichFile(t, buf.Bytes(), runOpts{add: tc.add})
+		if r.err != nil {
+			t.Fatal(r.err)
+		}
+		pf, err := file.NewParquetReader(bytes.NewReader(r.out))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := pf.MetaData().Schema.Column(2).PhysicalType(); got != tc.want {
+			t.Errorf("--add %q: timestamp stored as %s, want %s", tc.add, got, tc.want)
+		}
+		pf.Close()
+		tbl := readTable(t, r.out, mem)
+		if typ := tbl.Schema().Field(2).Type; !arrow.TypeEqual(typ, &arrow.TimestampType{Unit: arrow.Nanosecond, TimeZone: "UTC"}) {
+			t.Errorf("--add %q: timestamp read back as %s", tc.add, typ)
+		}
+		tbl.Release()
 	}
 }
