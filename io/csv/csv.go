@@ -61,7 +61,7 @@ type Reader struct {
 	line    int64 // lines consumed so far
 	counter *countingReader
 	size    int64
-	pool    *sync.Pool // output buffers
+	outPool *sync.Pool // encoded output buffers (*[]byte), returned once written
 	inPool  *sync.Pool // chunk input buffers, returned once a chunk is written
 }
 
@@ -91,7 +91,7 @@ func NewReader(r io.Reader, size int64, o Options) (*Reader, error) {
 	}
 	cr := &countingReader{r: r}
 	rd := &Reader{r: bufio.NewReaderSize(cr, 1<<20), delim: d, counter: cr, size: size}
-	rd.pool = &sync.Pool{New: func() any { return new(bytes.Buffer) }}
+	rd.outPool = &sync.Pool{New: func() any { return new([]byte) }}
 	rd.inPool = &sync.Pool{New: func() any { return new([]byte) }}
 	if b, err := rd.r.Peek(3); err == nil && bytes.Equal(b, []byte{0xEF, 0xBB, 0xBF}) {
 		rd.bom = true
@@ -248,7 +248,7 @@ type chunk struct {
 	starts []int // record i is buf[starts[i]:ends[i]], line terminator excluded
 	ends   []int
 	lines  []int64
-	out    *bytes.Buffer
+	out    *[]byte // the encoded rows, set by Encode
 }
 
 func (c *chunk) Len() int            { return len(c.ends) }
@@ -290,9 +290,8 @@ func (c *chunk) Values(i int) []string {
 }
 
 func (c *chunk) Encode(res *enrich.Results) error {
-	out := c.rd.pool.Get().(*bytes.Buffer)
-	out.Reset()
-	b := out.Bytes()
+	out := c.rd.outPool.Get().(*[]byte)
+	b := (*out)[:0]
 	// Room for the records and the added columns (about 26 bytes each at
 	// most: an RFC 3339 instant with offset), so that appending never grows.
 	if need := len(c.buf) + len(c.ends)*(2+26*len(res.Plan.Columns)); cap(b) < need {
@@ -312,7 +311,7 @@ func (c *chunk) Encode(res *enrich.Results) error {
 		b = appendColumns(b, res, i, d)
 		b = append(b, eol...)
 	}
-	*out = *bytes.NewBuffer(b)
+	*out = b
 	c.out = out
 	return nil
 }
@@ -374,15 +373,13 @@ func appendColumns(b []byte, res *enrich.Results, i int, d byte) []byte {
 
 // Writer writes the enriched records of chunks from a Reader.
 type Writer struct {
-	w       *bufio.Writer
-	rd      *Reader
-	started bool
-	plan    *enrich.Plan
+	w  *bufio.Writer
+	rd *Reader
 }
 
 // NewWriter writes the header at once: the input's header with the added names.
 func NewWriter(w io.Writer, rd *Reader, plan *enrich.Plan) (*Writer, error) {
-	wr := &Writer{w: bufio.NewWriterSize(w, 1<<20), rd: rd, plan: plan}
+	wr := &Writer{w: bufio.NewWriterSize(w, 1<<20), rd: rd}
 	var b []byte
 	if rd.bom {
 		b = append(b, 0xEF, 0xBB, 0xBF)
@@ -405,8 +402,8 @@ func (w *Writer) Write(_ context.Context, ch enrich.Chunk) error {
 	if !ok || c.out == nil {
 		return fmt.Errorf("csv: chunk %T was not encoded by this package", ch)
 	}
-	_, err := w.w.Write(c.out.Bytes())
-	c.rd.pool.Put(c.out)
+	_, err := w.w.Write(*c.out)
+	c.rd.outPool.Put(c.out)
 	// The chunk is done: nothing refers to its records after Write (the
 	// rejects file was written before, Inputs hold no views into them).
 	buf := c.buf[:0]
