@@ -275,7 +275,7 @@ func Run(ctx context.Context, src Source, sink Sink, o Options) (Summary, error)
 				continue
 			case RowRejected:
 				if o.Policy == PolicyFail {
-					return fmt.Errorf("%w (stopping at the first bad row; --on-bad-row skip or keep goes on)", res.Err[i])
+					return fmt.Errorf("%w (stopping at the first %w; --on-bad-row skip or keep goes on)", res.Err[i], ErrBadRow)
 				}
 				sum.Rejected++
 				if rejects != nil {

@@ -187,3 +187,12 @@ func TestSuggestOutput(t *testing.T) {
 	assert.Equal(t, "out.rejects.csv", DefaultRejects("out.csv"))
 	assert.Equal(t, "d/out.rejects.csv", DefaultRejects("d/out.tsv.gz"))
 }
+
+func TestFailPolicyErrorIsBadRow(t *testing.T) {
+	dir := t.TempDir()
+	in := filepath.Join(dir, "in.csv")
+	require.NoError(t, os.WriteFile(in, []byte("id,lat,lon,timestamp\n1,95,0,2024-01-01T00:00:00Z\n"), 0o644))
+	_, err := Enrich(context.Background(), Options{Input: in, Output: filepath.Join(dir, "out.csv")}, nil, nil)
+	require.ErrorIs(t, err, enrich.ErrBadRow)
+	assert.Contains(t, err.Error(), "stopping at the first bad row")
+}
