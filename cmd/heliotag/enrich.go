@@ -51,6 +51,10 @@ Examples (the demo data is invented; see testdata/demo/README.md):
   # Wildlife: camera-trap detections with RFC 3339 timestamps (offsets included)
   heliotag enrich testdata/demo/hollin_ridge_detections.csv -o out/detections_sun.csv
 
+  # GeoJSON or Parquet: the same flags; the location comes from the geometry
+  heliotag enrich sightings.geojson --add phase,moon -o sightings_sun.geojson
+  heliotag enrich fixes.parquet --tz auto --compression zstd -o fixes_sun.parquet
+
   # Nightly job: skip bad rows into a rejects file, write a JSON report, 2 workers
   heliotag enrich big.csv --tz auto --on-bad-row skip --rejects bad.csv \
       --report run.json --workers 2 -q -o big_sun.csv
