@@ -51,7 +51,7 @@ Examples (the demo data is invented; see testdata/demo/README.md):
   # Wildlife: camera-trap detections with RFC 3339 timestamps (offsets included)
   heliotag enrich testdata/demo/hollin_ridge_detections.csv -o out/detections_sun.csv
 
-  # GeoJSON or Parquet: the same flags; the location comes from the geometry
+  # GeoJSON (location from the geometry) and Parquet (lat/lon columns or GeoParquet)
   heliotag enrich sightings.geojson --add phase,moon -o sightings_sun.geojson
   heliotag enrich fixes.parquet --tz auto --compression zstd -o fixes_sun.parquet
 
