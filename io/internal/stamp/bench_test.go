@@ -1,6 +1,7 @@
 package stamp
 
 import (
+	"github.com/heliotag/heliotag/internal/benchclock"
 	"testing"
 	"time"
 )
@@ -28,11 +29,11 @@ func BenchmarkParse(b *testing.B) {
 	for _, c := range cases {
 		b.Run(c.name, func(b *testing.B) {
 			b.ReportAllocs()
-			cpu := startCPU()
+			cpu := benchclock.Start()
 			for b.Loop() {
 				sinkStamp, _ = c.p.Parse(c.in)
 			}
-			cpu.report(b, 1)
+			cpu.Report(b, 1)
 			b.ReportMetric(float64(b.N)/b.Elapsed().Seconds(), "values/s")
 		})
 	}
@@ -55,11 +56,11 @@ func BenchmarkParseDateTime(b *testing.B) {
 	for _, c := range cases {
 		b.Run(c.name, func(b *testing.B) {
 			b.ReportAllocs()
-			cpu := startCPU()
+			cpu := benchclock.Start()
 			for b.Loop() {
 				sinkStamp, _ = c.p.ParseDateTime(c.date, c.clock)
 			}
-			cpu.report(b, 1)
+			cpu.Report(b, 1)
 			b.ReportMetric(float64(b.N)/b.Elapsed().Seconds(), "values/s")
 		})
 	}
@@ -71,22 +72,22 @@ func BenchmarkBaseline(b *testing.B) {
 	b.Run("time.Parse_rfc3339", func(b *testing.B) {
 		b.ReportAllocs()
 		var t time.Time
-		cpu := startCPU()
+		cpu := benchclock.Start()
 		for b.Loop() {
 			t, _ = time.Parse(time.RFC3339, "2024-06-21T18:30:00Z")
 		}
-		cpu.report(b, 1)
+		cpu.Report(b, 1)
 		sinkStamp.Year = t.Year()
 		b.ReportMetric(float64(b.N)/b.Elapsed().Seconds(), "values/s")
 	})
 	b.Run("time.Parse_local", func(b *testing.B) {
 		b.ReportAllocs()
 		var t time.Time
-		cpu := startCPU()
+		cpu := benchclock.Start()
 		for b.Loop() {
 			t, _ = time.Parse("2006-01-02 15:04", "2024-03-10 02:30")
 		}
-		cpu.report(b, 1)
+		cpu.Report(b, 1)
 		sinkStamp.Year = t.Year()
 		b.ReportMetric(float64(b.N)/b.Elapsed().Seconds(), "values/s")
 	})

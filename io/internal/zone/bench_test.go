@@ -1,6 +1,7 @@
 package zone
 
 import (
+	"github.com/heliotag/heliotag/internal/benchclock"
 	"math/rand/v2"
 	"runtime"
 	"testing"
@@ -46,58 +47,58 @@ func BenchmarkResolve(b *testing.B) {
 
 	b.Run("fixed", func(b *testing.B) {
 		b.ReportAllocs()
-		cpu := startCPU()
+		cpu := benchclock.Start()
 		for b.Loop() {
 			for _, s := range stamps {
 				_, _, _, _ = fix.Resolve(s, "", 0, 0)
 			}
 		}
-		cpu.report(b, rowsPerOp)
+		cpu.Report(b, rowsPerOp)
 		report(b)
 	})
 	b.Run("fixed_with_offset", func(b *testing.B) {
 		b.ReportAllocs()
-		cpu := startCPU()
+		cpu := benchclock.Start()
 		for b.Loop() {
 			for _, s := range withOffset {
 				_, _, _, _ = fix.Resolve(s, "", 0, 0)
 			}
 		}
-		cpu.report(b, rowsPerOp)
+		cpu.Report(b, rowsPerOp)
 		report(b)
 	})
 	b.Run("none_with_offset", func(b *testing.B) {
 		b.ReportAllocs()
-		cpu := startCPU()
+		cpu := benchclock.Start()
 		for b.Loop() {
 			for _, s := range withOffset {
 				_, _, _, _ = none.Resolve(s, "", 0, 0)
 			}
 		}
-		cpu.report(b, rowsPerOp)
+		cpu.Report(b, rowsPerOp)
 		report(b)
 	})
 	b.Run("column_4_zones", func(b *testing.B) {
 		b.ReportAllocs()
-		cpu := startCPU()
+		cpu := benchclock.Start()
 		for b.Loop() {
 			for i, s := range stamps {
 				_, _, _, _ = col.Resolve(s, names[i&3], 0, 0)
 			}
 		}
-		cpu.report(b, rowsPerOp)
+		cpu.Report(b, rowsPerOp)
 		report(b)
 	})
 	b.Run("baseline_time.Date", func(b *testing.B) {
 		loc, _ := time.LoadLocation("America/New_York")
 		b.ReportAllocs()
-		cpu := startCPU()
+		cpu := benchclock.Start()
 		for b.Loop() {
 			for _, s := range stamps {
 				_ = time.Date(s.Year, s.Month, s.Day, s.Hour, s.Minute, s.Second, s.Nanosecond, loc).UTC()
 			}
 		}
-		cpu.report(b, rowsPerOp)
+		cpu.Report(b, rowsPerOp)
 		report(b)
 	})
 }
@@ -123,30 +124,30 @@ func BenchmarkResolveAuto(b *testing.B) {
 	}
 	b.Run("same_point", func(b *testing.B) {
 		b.ReportAllocs()
-		cpu := startCPU()
+		cpu := benchclock.Start()
 		for b.Loop() {
 			for _, s := range stamps {
 				_, _, _, _ = r.Resolve(s, "", 40.7128, -74.0060)
 			}
 		}
-		cpu.report(b, rowsPerOp)
+		cpu.Report(b, rowsPerOp)
 		report(b)
 	})
 	b.Run("one_region", func(b *testing.B) {
 		b.ReportAllocs()
-		cpu := startCPU()
+		cpu := benchclock.Start()
 		for b.Loop() {
 			for i, s := range stamps {
 				_, _, _, _ = r.Resolve(s, "", region[i].lat, region[i].lon)
 			}
 		}
-		cpu.report(b, rowsPerOp)
+		cpu.Report(b, rowsPerOp)
 		report(b)
 	})
 	b.Run("worldwide_distinct", func(b *testing.B) {
 		b.ReportAllocs()
 		k := 0
-		cpu := startCPU()
+		cpu := benchclock.Start()
 		for b.Loop() {
 			for _, s := range stamps {
 				p := world[k%len(world)]
@@ -154,7 +155,7 @@ func BenchmarkResolveAuto(b *testing.B) {
 				_, _, _, _ = r.Resolve(s, "", p.lat+float64(k/len(world))*1e-9, p.lon)
 			}
 		}
-		cpu.report(b, rowsPerOp)
+		cpu.Report(b, rowsPerOp)
 		report(b)
 	})
 	b.Run("baseline_tzf_DefaultFinder_worldwide", func(b *testing.B) {
@@ -164,7 +165,7 @@ func BenchmarkResolveAuto(b *testing.B) {
 		}
 		b.ReportAllocs()
 		k := 0
-		cpu := startCPU()
+		cpu := benchclock.Start()
 		for b.Loop() {
 			for range stamps {
 				p := world[k%len(world)]
@@ -172,7 +173,7 @@ func BenchmarkResolveAuto(b *testing.B) {
 				_ = ref.GetTimezoneName(p.lon, p.lat)
 			}
 		}
-		cpu.report(b, rowsPerOp)
+		cpu.Report(b, rowsPerOp)
 		report(b)
 	})
 }
@@ -193,11 +194,11 @@ func BenchmarkBuildTable(b *testing.B) {
 func BenchmarkSearch(b *testing.B) {
 	loc, _ := time.LoadLocation("America/New_York")
 	b.ReportAllocs()
-	cpu := startCPU()
+	cpu := benchclock.Start()
 	for b.Loop() {
 		search(loc, 7000000000) // 2191
 	}
-	cpu.report(b, 1)
+	cpu.Report(b, 1)
 }
 
 // BenchmarkFinderBuild measures building the --tz auto finder (done once per process) and the heap it
@@ -230,7 +231,7 @@ func BenchmarkParseAndResolve(b *testing.B) {
 	p, _ := stamp.NewParser(stamp.Options{})
 	r, _ := NewResolver(Options{Mode: Fixed, Name: "America/New_York"})
 	b.ReportAllocs()
-	cpu := startCPU()
+	cpu := benchclock.Start()
 	for b.Loop() {
 		for _, text := range texts {
 			s, err := p.Parse(text)
@@ -239,6 +240,6 @@ func BenchmarkParseAndResolve(b *testing.B) {
 			}
 		}
 	}
-	cpu.report(b, rowsPerOp)
+	cpu.Report(b, rowsPerOp)
 	report(b)
 }
