@@ -58,6 +58,7 @@ type Reader struct {
 	bom     bool
 	crlf    bool
 	x       *fields.Extractor
+	need    int   // fields the extractor reads: one past its highest column index
 	line    int64 // lines consumed so far
 	counter *countingReader
 	size    int64
@@ -136,6 +137,9 @@ func NewReader(r io.Reader, size int64, o Options) (*Reader, error) {
 	}
 	if rd.x, err = fields.New(rd.header, o.Select); err != nil {
 		return nil, err
+	}
+	for _, i := range rd.x.Indexes() {
+		rd.need = max(rd.need, i+1)
 	}
 	return rd, nil
 }
@@ -259,22 +263,60 @@ func (c *chunk) Extract(in *enrich.Inputs) {
 	var rec []string
 	var err error
 	want := len(c.rd.header)
+	d := c.rd.delim
 	for i := range c.ends {
-		rec, err = splitRecord(rec, c.record(i), c.rd.delim)
-		if err != nil {
-			in.Err[i] = &enrich.RowError{Err: err}
-			continue
-		}
-		if len(rec) != want {
-			msg := "missing fields are written empty"
-			if len(rec) > want {
-				msg = fmt.Sprintf("fields %d to %d are kept joined into the last column", want, len(rec))
+		r := c.record(i)
+		n := 0
+		if bytes.IndexByte(r, '"') < 0 {
+			// No quotes: count the fields, and split only as far as the
+			// last column the extractor reads (the rest stay unsplit).
+			n = bytes.Count(r, []byte{d}) + 1
+			if n == want {
+				rec = splitPlain(rec, r, d, want, c.rd.need)
+				c.rd.x.Row(rec, i, in)
+				continue
 			}
-			in.Err[i] = &enrich.RowError{Err: fmt.Errorf("%w: the row has %d fields, the header has %d (under --on-bad-row keep, %s)", ErrFieldCount, len(rec), want, msg)}
-			continue
+		} else {
+			rec, err = splitRecord(rec, r, d)
+			if err != nil {
+				in.Err[i] = &enrich.RowError{Err: err}
+				continue
+			}
+			n = len(rec)
+			if n == want {
+				c.rd.x.Row(rec, i, in)
+				continue
+			}
 		}
-		c.rd.x.Row(rec, i, in)
+		msg := "missing fields are written empty"
+		if n > want {
+			msg = fmt.Sprintf("fields %d to %d are kept joined into the last column", want, n)
+		}
+		in.Err[i] = &enrich.RowError{Err: fmt.Errorf("%w: the row has %d fields, the header has %d (under --on-bad-row keep, %s)", ErrFieldCount, n, want, msg)}
 	}
+}
+
+// splitPlain fills dst (resized to n fields) with the first need fields of
+// rec, a record without quotes; the other fields are left empty. The fields
+// are views into rec.
+func splitPlain(dst []string, rec []byte, d byte, n, need int) []string {
+	if cap(dst) < n {
+		dst = make([]string, n)
+	}
+	dst = dst[:n]
+	start := 0
+	for j := 0; j < need && j < n; j++ {
+		end := len(rec)
+		if k := bytes.IndexByte(rec[start:], d); k >= 0 {
+			end = start + k
+		}
+		dst[j] = view(rec[start:end])
+		start = end + 1
+	}
+	for j := need; j < n; j++ {
+		dst[j] = ""
+	}
+	return dst
 }
 
 func (c *chunk) Values(i int) []string {

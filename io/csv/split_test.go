@@ -100,3 +100,12 @@ func FuzzSplitRecord(f *testing.F) {
 		require.Equal(t, fields, again)
 	})
 }
+
+func TestSplitPlain(t *testing.T) {
+	got := splitPlain(nil, []byte("a,b,c,d"), ',', 4, 2)
+	assert.Equal(t, []string{"a", "b", "", ""}, got, "only the needed fields are split")
+	got = splitPlain(got, []byte("x,,z,w"), ',', 4, 4)
+	assert.Equal(t, []string{"x", "", "z", "w"}, got)
+	got = splitPlain(got, []byte("p,q,r,s"), ',', 4, 1)
+	assert.Equal(t, []string{"p", "", "", ""}, got, "no stale values from the previous row")
+}

@@ -136,7 +136,7 @@ func NewReader(r io.Reader, size int64, o Options) (*Reader, error) {
 		return nil, fmt.Errorf("reading the time from the features' properties: %w", err)
 	}
 	rd.x = x
-	for _, i := range append(x.Indexes(), x.HeadingColumn()) {
+	for _, i := range x.Indexes() {
 		if i >= 0 {
 			rd.need = append(rd.need, need{name: rd.cols[i], idx: i})
 		}

@@ -214,7 +214,7 @@ func (x *Extractor) Roles() enrich.Roles {
 // decode only the fields they need).
 func (x *Extractor) Indexes() []int {
 	var idx []int
-	for _, i := range []int{x.lat, x.lon, x.geom, x.ts, x.date, x.clock, x.tz} {
+	for _, i := range []int{x.lat, x.lon, x.geom, x.ts, x.date, x.clock, x.tz, x.heading} {
 		if i >= 0 {
 			idx = append(idx, i)
 		}
