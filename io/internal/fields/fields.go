@@ -12,6 +12,7 @@ import (
 	"strings"
 
 	"github.com/heliotag/heliotag/enrich"
+	"github.com/heliotag/heliotag/io/internal/num"
 	"github.com/heliotag/heliotag/io/internal/stamp"
 	"github.com/heliotag/heliotag/io/internal/zone"
 )
@@ -286,7 +287,7 @@ func Coordinate(s, what string, limit int) (float64, error) {
 	if t == "" {
 		return 0, fmt.Errorf("%s is %w; expected decimal degrees in [%d, %d]", what, ErrEmpty, -limit, limit)
 	}
-	v, err := strconv.ParseFloat(t, 64)
+	v, err := num.ParseDecimal(t)
 	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
 		return 0, fmt.Errorf("%s %q is %w; expected decimal degrees in [%d, %d]", what, s, ErrNotFloat, -limit, limit)
 	}

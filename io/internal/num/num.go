@@ -20,30 +20,48 @@ func AppendFixed(b []byte, v float64, dec int) []byte {
 		return strconv.AppendFloat(b, v, 'f', dec, 64)
 	}
 	scaled := math.Round(v * pow10[dec])
-	n := int64(scaled)
-	if n < 0 {
+	n := uint64(math.Abs(scaled))
+	if scaled < 0 && n != 0 {
 		b = append(b, '-')
-		n = -n
 	}
+	// Digits are written backwards into buf, two at a time from a table.
 	var buf [24]byte
 	i := len(buf)
-	for d := 0; d < dec; d++ {
-		i--
-		buf[i] = byte('0' + n%10)
-		n /= 10
-	}
 	if dec > 0 {
+		p := uint64(pow10[dec])
+		frac := n % p
+		n /= p
+		d := dec
+		for ; d >= 2; d -= 2 {
+			q := frac % 100
+			frac /= 100
+			i -= 2
+			buf[i], buf[i+1] = pairs[2*q], pairs[2*q+1]
+		}
+		if d == 1 {
+			i--
+			buf[i] = byte('0' + frac)
+		}
 		i--
 		buf[i] = '.'
 	}
-	if n == 0 {
-		i--
-		buf[i] = '0'
+	for n >= 100 {
+		q := n % 100
+		n /= 100
+		i -= 2
+		buf[i], buf[i+1] = pairs[2*q], pairs[2*q+1]
 	}
-	for n > 0 {
+	if n >= 10 {
+		i -= 2
+		buf[i], buf[i+1] = pairs[2*n], pairs[2*n+1]
+	} else {
 		i--
-		buf[i] = byte('0' + n%10)
-		n /= 10
+		buf[i] = byte('0' + n)
 	}
 	return append(b, buf[i:]...)
 }
+
+// pairs holds "00" to "99": the two digits of q at pairs[2q:2q+2].
+const pairs = "00010203040506070809101112131415161718192021222324252627282930313233343536373839" +
+	"40414243444546474849505152535455565758596061626364656667686970717273747576777879" +
+	"8081828384858687888990919293949596979899"
