@@ -190,8 +190,13 @@ func (rd *Reader) readRecord(dst []byte) (rec []byte, lines int64, err error) {
 }
 
 func trimEOL(b []byte) []byte {
-	b = bytes.TrimSuffix(b, []byte("\n"))
-	return bytes.TrimSuffix(b, []byte("\r"))
+	if n := len(b); n > 0 && b[n-1] == '\n' {
+		b = b[:n-1]
+	}
+	if n := len(b); n > 0 && b[n-1] == '\r' {
+		b = b[:n-1]
+	}
+	return b
 }
 
 // Columns returns the header's column names.
@@ -231,12 +236,13 @@ func (rd *Reader) Next(ctx context.Context, max int) (enrich.Chunk, error) {
 		if err != nil {
 			return nil, err
 		}
-		if len(trimEOL(c.buf[before:])) == 0 { // empty line: not a row
+		body := len(trimEOL(c.buf[before:]))
+		if body == 0 { // empty line: not a row
 			c.buf = c.buf[:before]
 			continue
 		}
 		c.starts = append(c.starts, before)
-		c.ends = append(c.ends, before+len(trimEOL(c.buf[before:])))
+		c.ends = append(c.ends, before+body)
 		c.lines = append(c.lines, startLine)
 	}
 	if len(c.ends) == 0 {
