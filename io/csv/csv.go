@@ -63,7 +63,7 @@ type Reader struct {
 	counter *countingReader
 	size    int64
 	outPool *sync.Pool // encoded output buffers (*[]byte), returned once written
-	inPool  *sync.Pool // chunk input buffers, returned once a chunk is written
+	inPool  *sync.Pool // chunks (*chunk) with their buffers, returned once written
 }
 
 // countingReader counts the bytes read; the count is read from the writer
@@ -93,7 +93,7 @@ func NewReader(r io.Reader, size int64, o Options) (*Reader, error) {
 	cr := &countingReader{r: r}
 	rd := &Reader{r: bufio.NewReaderSize(cr, 1<<20), delim: d, counter: cr, size: size}
 	rd.outPool = &sync.Pool{New: func() any { return new([]byte) }}
-	rd.inPool = &sync.Pool{New: func() any { return new([]byte) }}
+	rd.inPool = &sync.Pool{New: func() any { return new(chunk) }}
 	if b, err := rd.r.Peek(3); err == nil && bytes.Equal(b, []byte{0xEF, 0xBB, 0xBF}) {
 		rd.bom = true
 		_, _ = rd.r.Discard(3)
@@ -219,9 +219,13 @@ func (rd *Reader) Next(ctx context.Context, max int) (enrich.Chunk, error) {
 	if err := ctx.Err(); err != nil {
 		return nil, context.Cause(ctx)
 	}
-	c := &chunk{rd: rd, buf: (*rd.inPool.Get().(*[]byte))[:0]}
+	// Chunks come back to the pool once written, with their buffers.
+	c := rd.inPool.Get().(*chunk)
+	c.rd = rd
+	c.buf, c.starts, c.ends, c.lines = c.buf[:0], c.starts[:0], c.ends[:0], c.lines[:0]
 	if cap(c.buf) == 0 {
 		c.buf = make([]byte, 0, 64*max)
+		c.starts, c.ends, c.lines = make([]int, 0, max), make([]int, 0, max), make([]int64, 0, max)
 	}
 	for len(c.ends) < max {
 		startLine := rd.line + 1
@@ -246,6 +250,7 @@ func (rd *Reader) Next(ctx context.Context, max int) (enrich.Chunk, error) {
 		c.lines = append(c.lines, startLine)
 	}
 	if len(c.ends) == 0 {
+		rd.inPool.Put(c)
 		return nil, io.EOF
 	}
 	return c, nil
@@ -310,14 +315,21 @@ func splitPlain(dst []string, rec []byte, d byte, n, need int) []string {
 		dst = make([]string, n)
 	}
 	dst = dst[:n]
-	start := 0
-	for j := 0; j < need && j < n; j++ {
-		end := len(rec)
-		if k := bytes.IndexByte(rec[start:], d); k >= 0 {
-			end = start + k
+	// Fields are short: a byte loop beats a call to IndexByte per field.
+	start, j := 0, 0
+	for k := 0; k < len(rec) && j < need; k++ {
+		if rec[k] == d {
+			dst[j] = view(rec[start:k])
+			start = k + 1
+			j++
 		}
-		dst[j] = view(rec[start:end])
-		start = end + 1
+	}
+	if j < need && j < n {
+		dst[j] = view(rec[start:])
+		j++
+	}
+	for ; j < need && j < n; j++ {
+		dst[j] = ""
 	}
 	for j := need; j < n; j++ {
 		dst[j] = ""
@@ -419,15 +431,20 @@ func appendColumns(b []byte, res *enrich.Results, i int, d byte) []byte {
 	return b
 }
 
+// directWrite is the size from which an encoded chunk bypasses the output
+// buffer.
+const directWrite = 64 << 10
+
 // Writer writes the enriched records of chunks from a Reader.
 type Writer struct {
-	w  *bufio.Writer
-	rd *Reader
+	w   *bufio.Writer
+	dst io.Writer // under w: large chunks are written to it directly
+	rd  *Reader
 }
 
 // NewWriter writes the header at once: the input's header with the added names.
 func NewWriter(w io.Writer, rd *Reader, plan *enrich.Plan) (*Writer, error) {
-	wr := &Writer{w: bufio.NewWriterSize(w, 1<<20), rd: rd}
+	wr := &Writer{w: bufio.NewWriterSize(w, 1<<20), dst: w, rd: rd}
 	var b []byte
 	if rd.bom {
 		b = append(b, 0xEF, 0xBB, 0xBF)
@@ -450,14 +467,21 @@ func (w *Writer) Write(_ context.Context, ch enrich.Chunk) error {
 	if !ok || c.out == nil {
 		return fmt.Errorf("csv: chunk %T was not encoded by this package", ch)
 	}
-	_, err := w.w.Write(*c.out)
+	var err error
+	if out := *c.out; len(out) >= directWrite {
+		// A large chunk goes straight to the file, without a copy through
+		// the buffer (this goroutine is the pipeline's one writer).
+		if err = w.w.Flush(); err == nil {
+			_, err = w.dst.Write(out)
+		}
+	} else {
+		_, err = w.w.Write(out)
+	}
 	c.rd.outPool.Put(c.out)
+	c.out = nil
 	// The chunk is done: nothing refers to its records after Write (the
 	// rejects file was written before, Inputs hold no views into them).
-	buf := c.buf[:0]
-	c.buf = nil
-	c.rd.inPool.Put(&buf)
-	c.out = nil
+	c.rd.inPool.Put(c)
 	if err != nil {
 		return fmt.Errorf("writing output: %w", err)
 	}

@@ -1,6 +1,7 @@
 package csv
 
 import (
+	"bytes"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
@@ -108,4 +109,30 @@ func TestSplitPlain(t *testing.T) {
 	assert.Equal(t, []string{"x", "", "z", "w"}, got)
 	got = splitPlain(got, []byte("p,q,r,s"), ',', 4, 1)
 	assert.Equal(t, []string{"p", "", "", ""}, got, "no stale values from the previous row")
+}
+
+// FuzzSplitPlain: on a record without quotes, splitPlain gives
+// splitRecord's first need fields (and empty ones after them).
+func FuzzSplitPlain(f *testing.F) {
+	for _, s := range []string{"a,b,c", ",,", "", "1,2,3,4,5,6,7", "x,", ",y"} {
+		f.Add([]byte(s), uint8(2))
+	}
+	f.Fuzz(func(t *testing.T, rec []byte, need uint8) {
+		if bytes.IndexByte(rec, '"') >= 0 {
+			return
+		}
+		want, err := splitRecord(nil, rec, ',')
+		require.NoError(t, err)
+		n := len(want)
+		k := int(need) % (n + 2)
+		got := splitPlain([]string{"stale", "stale"}, rec, ',', n, k)
+		require.Len(t, got, n)
+		for j := range n {
+			if j < k {
+				require.Equal(t, want[j], got[j], "field %d of %q", j, rec)
+			} else {
+				require.Equal(t, "", got[j], "field %d of %q", j, rec)
+			}
+		}
+	})
 }
