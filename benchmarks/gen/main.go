@@ -1,142 +1,158 @@
-// Command gen writes deterministic synthetic inputs for heliotag's benchmarks.
-// The records are generated, not real: random places and times in shapes
-// that resemble the two main uses.
+// Command gen writes deterministic synthetic inputs for heliotag's
+// benchmarks: N rows of one shape, from a seed, as CSV, a GeoJSON
+// FeatureCollection, a GeoJSON text sequence or Parquet. The records are
+// generated, not real: random places and times in shapes that resemble the
+// two main uses. One seed gives the same rows in every format.
 //
-//	go run ./benchmarks/gen -n 1000000 -shape crash -o benchmarks/data/crash_1m.csv
+//	go run ./benchmarks/gen -n 1000000 -shape crash -o benchmarks/data/crash_1000000.csv
+//	go run ./benchmarks/gen -n 5000000 -shape camera -wide -o benchmarks/data/camera-wide_5000000.parquet
 //
 // Shapes:
-//   - crash: every row its own place (inside a 4°×6° box at mid latitude),
-//     local date and HHMM time in separate columns over ten years (read with
-//     --date crash_date --time crash_time --tz America/Chicago);
-//   - camera: 40 fixed sites, RFC 3339 timestamps with the site's offset.
+//   - crash: every row its own place (a 4°×6° box at mid latitude), a local
+//     date and minute over ten years on the wall clock of America/Chicago.
+//     CSV and GeoJSON hold them in separate columns (crash_date as
+//     2016-05-04, crash_time as HHMM: enrich with --date crash_date --time
+//     crash_time --tz America/Chicago); Parquet in one timestamp[us] column
+//     not adjusted to UTC (enrich with --tz America/Chicago).
+//   - camera: 40 fixed sites, instants over three years: RFC 3339 with the
+//     site's offset in text, timestamp[us, UTC] in Parquet (no flags needed).
 //
-// -wide adds 30 passthrough columns of mixed types (text, integers, decimals,
-// booleans, dates) so that the cost of copying realistic rows is measured.
+// -wide adds 30 passthrough columns of mixed types (text, integers,
+// decimals, booleans, dates; typed in Parquet and GeoJSON) so that the cost
+// of carrying realistic rows is measured.
+//
+// The format follows the output's extension (.csv, .geojson, .geojsonl,
+// .parquet) unless -format names it. A file is written under a temporary
+// name and renamed when complete, so a file that exists is whole.
 package main
 
 import (
-	"bufio"
 	"flag"
 	"fmt"
-	"math/rand/v2"
+	"io"
 	"os"
-	"strconv"
-	"time"
+	"path/filepath"
+	"strings"
 )
 
 func main() {
-	n := flag.Int("n", 1_000_000, "number of rows")
-	shape := flag.String("shape", "crash", "crash|camera")
-	wide := flag.Bool("wide", false, "add 30 passthrough columns of mixed types")
-	seed := flag.Uint64("seed", 1, "random seed")
-	out := flag.String("o", "-", "output file (- for stdout)")
-	flag.Parse()
-	if err := write(*out, *n, *shape, *wide, *seed); err != nil {
-		fmt.Fprintln(os.Stderr, "gen:", err)
-		os.Exit(1)
-	}
+	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
 }
 
-func write(path string, n int, shape string, wide bool, seed uint64) error {
-	f := os.Stdout
-	if path != "-" {
-		var err error
-		if f, err = os.Create(path); err != nil {
-			return err
-		}
-		defer f.Close()
+// config is what the flags ask for.
+type config struct {
+	n       int
+	shape   string
+	wide    bool
+	seed    uint64
+	format  string
+	parquet parquetOptions
+}
+
+func run(args []string, stdout, stderr io.Writer) int {
+	fs := flag.NewFlagSet("gen", flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	var c config
+	fs.IntVar(&c.n, "n", 1_000_000, "number of `ROWS`")
+	fs.StringVar(&c.shape, "shape", "crash", "`SHAPE` of the rows: crash or camera")
+	fs.BoolVar(&c.wide, "wide", false, "add 30 passthrough columns of mixed types")
+	fs.Uint64Var(&c.seed, "seed", 1, "random `SEED`")
+	fs.StringVar(&c.format, "format", "", "`FORMAT`: csv, geojson, geojsonseq or parquet (default: from -o's extension; csv on stdout)")
+	out := fs.String("o", "-", "output `FILE` (- for stdout, text formats only)")
+	fs.IntVar(&c.parquet.batch, "batch", 65536, "Parquet: rows per Arrow record `BATCH` handed to the writer")
+	fs.Int64Var(&c.parquet.rowGroup, "rowgroup", 1<<20, "Parquet: rows per row `GROUP`")
+	fs.StringVar(&c.parquet.compression, "compression", "zstd", "Parquet: `CODEC`, zstd, snappy, gzip or uncompressed")
+	if err := fs.Parse(args); err != nil {
+		return 2
 	}
-	w := bufio.NewWriterSize(f, 1<<20)
-	rng := rand.New(rand.NewPCG(seed, 0x5eed))
-	var row func(i int, b []byte) []byte
-	switch shape {
-	case "crash":
-		w.WriteString("id,crash_date,crash_time,lat,lon,severity,vehicles")
-		chicago, err := time.LoadLocation("America/Chicago")
-		if err != nil {
-			return err
+	if fs.NArg() > 0 {
+		fmt.Fprintf(stderr, "gen: unexpected argument %q\n", fs.Arg(0))
+		return 2
+	}
+	if c.format == "" {
+		c.format = formatOf(*out)
+	}
+	if err := generateFile(*out, stdout, c); err != nil {
+		fmt.Fprintln(stderr, "gen:", err)
+		return 1
+	}
+	return 0
+}
+
+// formatOf names the format of path by its extension.
+func formatOf(path string) string {
+	switch strings.ToLower(filepath.Ext(path)) {
+	case ".geojson", ".json":
+		return "geojson"
+	case ".geojsonl", ".geojsons", ".ndjson", ".jsonl":
+		return "geojsonseq"
+	case ".parquet":
+		return "parquet"
+	}
+	return "csv"
+}
+
+// generateFile writes to path ("-" for stdout) under a temporary name,
+// renamed on success.
+func generateFile(path string, stdout io.Writer, c config) error {
+	if path == "-" {
+		if c.format == "parquet" {
+			return fmt.Errorf("Parquet needs an output file (-o)")
 		}
-		start := time.Date(2014, 1, 1, 0, 0, 0, 0, chicago)
-		sev := []string{"property damage", "minor injury", "serious injury", "fatal"}
-		row = func(i int, b []byte) []byte {
-			t := start.AddDate(0, 0, rng.IntN(3652)).Add(time.Duration(rng.IntN(1440)) * time.Minute)
-			b = strconv.AppendInt(append(b, 'c'), int64(i), 10)
-			b = append(b, ',')
-			b = t.AppendFormat(b, "2006-01-02,1504")
-			b = append(b, ',')
-			b = strconv.AppendFloat(b, 39+rng.Float64()*4, 'f', 5, 64)
-			b = append(b, ',')
-			b = strconv.AppendFloat(b, -91+rng.Float64()*6, 'f', 5, 64)
-			b = append(b, ',')
-			b = append(b, sev[rng.IntN(len(sev))]...)
-			b = append(b, ',')
-			return strconv.AppendInt(b, int64(1+rng.IntN(4)), 10)
-		}
-	case "camera":
-		w.WriteString("id,site,lat,lon,timestamp,species,count")
-		type site struct{ lat, lon float64 }
-		sites := make([]site, 40)
-		for i := range sites {
-			sites[i] = site{-40 + rng.Float64()*100, -150 + rng.Float64()*300}
-		}
-		species := []string{"fox", "badger", "deer", "hare", "owl", "boar", "marten", "squirrel"}
-		start := time.Date(2020, 1, 1, 0, 0, 0, 0, time.UTC)
-		row = func(i int, b []byte) []byte {
-			s := rng.IntN(len(sites))
-			off := time.FixedZone("", 3600*int(sites[s].lon/15))
-			t := start.Add(time.Duration(rng.Int64N(int64(3 * 365 * 24 * time.Hour)))).In(off)
-			b = strconv.AppendInt(append(b, 'd'), int64(i), 10)
-			b = append(b, fmt.Sprintf(",S%02d,", s)...)
-			b = strconv.AppendFloat(b, sites[s].lat, 'f', 5, 64)
-			b = append(b, ',')
-			b = strconv.AppendFloat(b, sites[s].lon, 'f', 5, 64)
-			b = append(b, ',')
-			b = t.AppendFormat(b, time.RFC3339)
-			b = append(b, ',')
-			b = append(b, species[rng.IntN(len(species))]...)
-			b = append(b, ',')
-			return strconv.AppendInt(b, int64(1+rng.IntN(3)), 10)
-		}
+		return generate(stdout, c)
+	}
+	tmp := path + ".part"
+	f, err := os.Create(tmp)
+	if err != nil {
+		return err
+	}
+	err = generate(f, c)
+	if cerr := f.Close(); err == nil && cerr != nil && c.format != "parquet" {
+		err = cerr // the Parquet writer closes the file itself
+	}
+	if err != nil {
+		os.Remove(tmp)
+		return err
+	}
+	return os.Rename(tmp, path)
+}
+
+// sink is one output format.
+type sink interface {
+	write(r *row) error
+	close() error
+}
+
+// generate writes c.n rows to w.
+func generate(w io.Writer, c config) error {
+	if c.n < 0 {
+		return fmt.Errorf("-n %d: the number of rows cannot be negative", c.n)
+	}
+	s, err := newShape(c.shape, c.wide, c.seed)
+	if err != nil {
+		return err
+	}
+	var out sink
+	switch c.format {
+	case "csv":
+		out, err = newCSVWriter(w, c.shape, c.wide)
+	case "geojson", "geojsonseq":
+		out, err = newGeoJSONWriter(w, c.shape, c.wide, c.format == "geojsonseq")
+	case "parquet":
+		out, err = newParquetWriter(w, c.shape, c.wide, c.parquet)
 	default:
-		return fmt.Errorf("unknown shape %q (crash or camera)", shape)
+		return fmt.Errorf("format %q; valid: csv, geojson, geojsonseq, parquet", c.format)
 	}
-	if wide {
-		for j := range 30 {
-			fmt.Fprintf(w, ",x%02d", j)
-		}
+	if err != nil {
+		return err
 	}
-	w.WriteString("\n")
-	var b []byte
-	for i := range n {
-		b = row(i, b[:0])
-		if wide {
-			b = appendWide(b, rng)
-		}
-		b = append(b, '\n')
-		if _, err := w.Write(b); err != nil {
+	var r row
+	for i := range c.n {
+		s.fill(i, &r)
+		if err := out.write(&r); err != nil {
+			out.close()
 			return err
 		}
 	}
-	return w.Flush()
-}
-
-// appendWide appends 30 fields of mixed types.
-func appendWide(b []byte, rng *rand.Rand) []byte {
-	words := []string{"alpha", "bravo", "charlie", "delta", "echo", "foxtrot", "golf", "hotel"}
-	for j := range 30 {
-		b = append(b, ',')
-		switch j % 5 {
-		case 0:
-			b = append(b, words[rng.IntN(len(words))]...)
-		case 1:
-			b = strconv.AppendInt(b, rng.Int64N(1_000_000), 10)
-		case 2:
-			b = strconv.AppendFloat(b, rng.Float64()*1000, 'f', 3, 64)
-		case 3:
-			b = strconv.AppendBool(b, rng.IntN(2) == 0)
-		case 4:
-			b = time.Date(2000+rng.IntN(25), time.Month(1+rng.IntN(12)), 1+rng.IntN(28), 0, 0, 0, 0, time.UTC).AppendFormat(b, "2006-01-02")
-		}
-	}
-	return b
+	return out.close()
 }

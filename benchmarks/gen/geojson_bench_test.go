@@ -1,10 +1,11 @@
 package main
 
-// End-to-end GeoJSON benchmarks on a generated 1,000,000-feature Point
-// FeatureCollection (about 150 MB, written once to benchmarks/data/, which
-// git ignores):
+// End-to-end GeoJSON benchmarks, in process, on the generated
+// 1,000,000-feature camera-shape FeatureCollection (about 200 MB, written
+// once to benchmarks/data/camera_1000000.geojson, which git ignores, and
+// shared with benchmarks/run.sh):
 //
-//	go test -run '^$' -bench . -benchtime 1x ./benchmarks/geojsongen/
+//	go test -run '^$' -bench GeoJSON1M -benchtime 1x ./benchmarks/gen/
 //
 // Beside the enrichment they time a passthrough (heliotag's reader and
 // writer with no sun columns: a plain decode and encode of the same file)
@@ -52,22 +53,11 @@ func benchData(b *testing.B) string {
 		if dataErr = os.MkdirAll(dir, 0o755); dataErr != nil {
 			return
 		}
-		dataPath = filepath.Join(dir, fmt.Sprintf("points-%d.geojson", benchFeatures))
+		dataPath = filepath.Join(dir, fmt.Sprintf("camera_%d.geojson", benchFeatures))
 		if _, err := os.Stat(dataPath); err == nil {
 			return
 		}
-		tmp := dataPath + ".part"
-		f, err := os.Create(tmp)
-		if err != nil {
-			dataErr = err
-			return
-		}
-		if dataErr = Write(f, benchFeatures, false, 1); dataErr == nil {
-			dataErr = f.Close()
-		}
-		if dataErr == nil {
-			dataErr = os.Rename(tmp, dataPath)
-		}
+		dataErr = generateFile(dataPath, nil, config{n: benchFeatures, shape: "camera", seed: 1, format: "geojson"})
 	})
 	if dataErr != nil {
 		b.Fatal(dataErr)
@@ -108,8 +98,8 @@ type countWriter struct{ n int64 }
 
 func (c *countWriter) Write(p []byte) (int, error) { c.n += int64(len(p)); return len(p), nil }
 
-// run enriches the file with plan groups add ("none" for the passthrough).
-func run(b *testing.B, path, add string, workers int) int64 {
+// enrichFile enriches the file with plan groups add ("none" for the passthrough).
+func enrichFile(b *testing.B, path, add string, workers int) int64 {
 	f, err := os.Open(path)
 	if err != nil {
 		b.Fatal(err)
@@ -199,8 +189,8 @@ func BenchmarkGeoJSON1M(b *testing.B) {
 		name string
 		f    func() int64
 	}{
-		{"enrich/workers=2", func() int64 { return run(b, path, "", 2) }},
-		{"passthrough/workers=2", func() int64 { return run(b, path, "none", 2) }},
+		{"enrich/workers=2", func() int64 { return enrichFile(b, path, "", 2) }},
+		{"passthrough/workers=2", func() int64 { return enrichFile(b, path, "none", 2) }},
 		{"naive-orb-decode-encode", func() int64 { return naive(b, path) }},
 	}
 	for _, c := range cases {
