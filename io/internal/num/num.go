@@ -16,7 +16,7 @@ var pow10 = [...]float64{1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9}
 // NaN, infinities and magnitudes of 1e15/10^dec or more go to strconv. Zero
 // after rounding prints without a sign.
 func AppendFixed(b []byte, v float64, dec int) []byte {
-	if dec < 0 || dec >= len(pow10) || math.IsNaN(v) || math.Abs(v) >= 1e15/pow10[dec] {
+	if dec < 0 || dec >= len(pow10) || !(math.Abs(v) < limit[dec]) { // NaN fails the test too
 		return strconv.AppendFloat(b, v, 'f', dec, 64)
 	}
 	scaled := math.Round(v * pow10[dec])
@@ -24,23 +24,22 @@ func AppendFixed(b []byte, v float64, dec int) []byte {
 	if scaled < 0 && n != 0 {
 		b = append(b, '-')
 	}
-	// Digits are written backwards into buf, two at a time from a table.
+	// Digits are written backwards into buf, two at a time from a table;
+	// every division is by a constant (a multiplication once compiled).
 	var buf [24]byte
 	i := len(buf)
 	if dec > 0 {
-		p := uint64(pow10[dec])
-		frac := n % p
-		n /= p
 		d := dec
 		for ; d >= 2; d -= 2 {
-			q := frac % 100
-			frac /= 100
+			q := n % 100
+			n /= 100
 			i -= 2
 			buf[i], buf[i+1] = pairs[2*q], pairs[2*q+1]
 		}
 		if d == 1 {
 			i--
-			buf[i] = byte('0' + frac)
+			buf[i] = byte('0' + n%10)
+			n /= 10
 		}
 		i--
 		buf[i] = '.'
@@ -60,6 +59,15 @@ func AppendFixed(b []byte, v float64, dec int) []byte {
 	}
 	return append(b, buf[i:]...)
 }
+
+// limit[dec] is the magnitude from which AppendFixed leaves a value to
+// strconv: v·10^dec must stay below 1e15, well inside uint64 and exact.
+var limit = func() (l [len(pow10)]float64) {
+	for i, p := range pow10 {
+		l[i] = 1e15 / p
+	}
+	return l
+}()
 
 // pairs holds "00" to "99": the two digits of q at pairs[2q:2q+2].
 const pairs = "00010203040506070809101112131415161718192021222324252627282930313233343536373839" +
