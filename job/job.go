@@ -54,6 +54,11 @@ type Options struct {
 	// OnProgress, when set, is called after each batch with the rows done and
 	// the input bytes consumed and total (total 0 when unknown).
 	OnProgress func(rows, done, total int64)
+
+	// At is a Camtrap DP observation's instant: "start" (""), "middle", "end".
+	At string
+	// Tables are the Camtrap DP tables to enrich: "observations" (""), "media", or both.
+	Tables string
 }
 
 // Result describes a finished (or failed) run.
@@ -62,6 +67,9 @@ type Result struct {
 	Output  string // where the output went ("-" for stdout)
 	Rejects string // the rejects file, if any
 	Format  formats.Format
+	// Tables has one entry per enriched table of a Camtrap DP package
+	// (Summary then totals them); nil for single files.
+	Tables []TableResult
 }
 
 // ExitCode is the process exit code for a run's outcome: 0 all rows
@@ -78,6 +86,12 @@ func (r Result) ExitCode(err error) int {
 
 // Enrich runs one enrich job. stdin and stdout serve "-" paths.
 func Enrich(ctx context.Context, o Options, stdin io.Reader, stdout io.Writer) (res Result, err error) {
+	if IsPackage(o.Input) {
+		return enrichPackage(ctx, o)
+	}
+	if o.At != "" || o.Tables != "" {
+		return res, fmt.Errorf("%w: --at and --tables apply to Camtrap DP packages (a datapackage.json or its folder)", enrich.ErrUsage)
+	}
 	f, err := formats.Detect(o.Input, o.From)
 	if err != nil {
 		return res, err

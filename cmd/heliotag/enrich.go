@@ -10,6 +10,7 @@ import (
 	"runtime"
 	"runtime/pprof"
 	"strconv"
+	"strings"
 	"time"
 
 	"github.com/schollz/progressbar/v3"
@@ -38,6 +39,14 @@ Column groups (--add, comma-separated; default position,phase):
 
 Times without an offset need a zone: --tz ZONE, --tz-column COL or --tz auto.
 
+Camtrap DP packages (INPUT is a datapackage.json or the folder holding it):
+the location comes from each row's deployment, observations are computed at
+eventStart (--at start|middle|end) and media at their timestamp; --tables
+chooses observations (default), media or both. -o names a new package
+folder: the input files are copied unchanged and <table>-sun.csv is added
+with its Table Schema. sun_time_note says outside_deployment or
+timestamp_issues; a row whose deployment is missing is a bad row.
+
 Exit codes: 0 every row enriched; 1 finished, some rows skipped or kept with
 errors; 2 fatal (usage, unreadable input, I/O error, first bad row under fail).
 
@@ -54,6 +63,11 @@ Examples (the demo data is invented; see testdata/demo/README.md):
   # GeoJSON (location from the geometry) and Parquet (lat/lon columns or GeoParquet)
   heliotag enrich sightings.geojson --add phase,moon -o sightings_sun.geojson
   heliotag enrich fixes.parquet --tz auto --compression zstd -o fixes_sun.parquet
+
+  # Camera traps: a Camtrap DP package (a datapackage.json or its folder) into a
+  # new package folder with observations-sun.csv and media-sun.csv added
+  heliotag enrich testdata/demo/hollin_ridge_package --tables observations,media \
+      --add phase,relative -o out/hollin_ridge_package_sun
 
   # Nightly job: skip bad rows into a rejects file, write a JSON report, 2 workers
   heliotag enrich big.csv --tz auto --on-bad-row skip --rejects bad.csv \
@@ -104,6 +118,8 @@ func newEnrichFlags(fs *flag.FlagSet, ef *enrichFlags) {
 	})
 	fs.Float64Var(&o.Glare.MaxAltitude, "glare-max-altitude", enrich.DefaultGlareMaxAltitude, "glare: the sun counts as low up to this altitude in `degrees`")
 	fs.Float64Var(&o.Glare.MaxOffset, "glare-max-offset", enrich.DefaultGlareMaxOffset, "glare: and as near the heading within this many `degrees`")
+	fs.StringVar(&o.At, "at", "", "Camtrap DP: the instant of an observation: `start|middle|end` of its event (default start)")
+	fs.StringVar(&o.Tables, "tables", "", "Camtrap DP: `TABLES` to enrich, comma-separated: observations, media (default observations)")
 	fs.StringVar(&ef.policy, "on-bad-row", "fail", "`POLICY` for bad rows: fail|skip|keep")
 	fs.StringVar(&o.Rejects, "rejects", "", "`FILE` for rows left out by --on-bad-row skip (default: beside the output)")
 	fs.StringVar(&o.Report, "report", "", "write the run's figures to `FILE`.json")
@@ -230,21 +246,32 @@ func runEnrich(ctx context.Context, args []string, stdin io.Reader, stdout, stde
 }
 
 func summaryLine(res job.Result) string {
-	s := res.Summary
-	line := fmt.Sprintf("heliotag: %d rows read, %d written", s.Read, s.Written)
+	if res.Tables != nil {
+		var lines []string
+		for _, t := range res.Tables {
+			lines = append(lines, tableLine("heliotag: "+t.Table+": ", t.Summary, t.Rejects, t.Output))
+		}
+		return strings.Join(lines, "\n")
+	}
+	return tableLine("heliotag: ", res.Summary, res.Rejects, res.Output)
+}
+
+// tableLine is the summary of one output: rows read, written, rejected.
+func tableLine(line string, s enrich.Summary, rejects, output string) string {
+	line += fmt.Sprintf("%d rows read, %d written", s.Read, s.Written)
 	if s.Kept > 0 {
 		line += fmt.Sprintf(" (%d with sun_error)", s.Kept)
 	}
 	line += fmt.Sprintf(", %d rejected", s.Rejected)
-	if res.Rejects != "" && s.Rejected > 0 {
-		line += " (see " + res.Rejects + ")"
+	if rejects != "" && s.Rejected > 0 {
+		line += " (see " + rejects + ")"
 	}
 	sec := s.Elapsed.Seconds()
 	if sec > 0 {
 		line += fmt.Sprintf(" in %.2f s (%.0f rows/s)", sec, float64(s.Read)/sec)
 	}
-	if res.Output != "-" {
-		line += " -> " + res.Output
+	if output != "-" {
+		line += " -> " + output
 	}
 	return line
 }
