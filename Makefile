@@ -43,16 +43,15 @@ FUZZTIME ?= 20s
 fuzz:
 	@sh scripts/fuzz.sh $(FUZZTIME)
 
-# Micro-benchmarks beside the code, and end-to-end runs of the command on
-# generated data (benchmarks/e2e.sh prints a markdown table with ratios to a
-# passthrough measured in the same script).
+# End-to-end runs of the command on generated data and the micro-benchmarks
+# beside the code, in one script (benchmarks/run.sh: a markdown table with
+# ratios to a passthrough measured in the same run, and the targets).
+# bench appends a dated entry to benchmarks/RESULTS.md; bench-quick only with RECORD=1.
 bench-quick:
-	$(GO) test -run '^$$' -bench 'Kernel$$|Compare' -benchtime 200ms ./solar/
-	bash benchmarks/e2e.sh 200000
+	bash benchmarks/run.sh quick
 
 bench:
-	$(GO) test -run '^$$' -bench . -benchtime 1s ./solar/ ./moon/ ./io/internal/... ./io/csv/
-	bash benchmarks/e2e.sh 1000000 10000000
+	bash benchmarks/run.sh full
 
 clean:
 	rm -rf bin $(OUT)
