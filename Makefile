@@ -38,6 +38,10 @@ demo: build
 	$(BIN) enrich testdata/demo/hollin_ridge_detections.csv \
 		--force -o $(OUT)/hollin_ridge_detections_sun.csv
 	@sh scripts/counts.sh $(OUT)/hollin_ridge_detections_sun.csv sun_light_condition sun_phase
+	$(BIN) enrich testdata/demo/hollin_ridge_package --tables observations,media \
+		--force -o $(OUT)/hollin_ridge_package_sun
+	@sh scripts/counts.sh $(OUT)/hollin_ridge_package_sun/observations-sun.csv sun_light_condition sun_time_note
+	@sh scripts/counts.sh $(OUT)/hollin_ridge_package_sun/media-sun.csv sun_light_condition
 
 FUZZTIME ?= 20s
 fuzz:
