@@ -9,9 +9,9 @@ import (
 	"math"
 	"runtime"
 	"strconv"
-	"sync"
 	"time"
 
+	"github.com/heliotag/heliotag/internal/freelist"
 	"github.com/heliotag/heliotag/pipeline"
 	"github.com/heliotag/heliotag/solar"
 )
@@ -125,8 +125,10 @@ func Run(ctx context.Context, src Source, sink Sink, o Options) (Summary, error)
 	for range workers {
 		states <- newWorker(o.Solar)
 	}
-	inputs := sync.Pool{New: func() any { return new(Inputs) }}
-	results := sync.Pool{New: func() any { return new(Results) }}
+	// Free lists, not sync.Pool: kept across collections, so the heap stops
+	// growing once the batches in flight have their buffers.
+	inputs := freelist.New(4*workers+8, func() *Inputs { return new(Inputs) })
+	results := freelist.New(4*workers+8, func() *Results { return new(Results) })
 	roles := Roles{}
 	if r, ok := src.(interface{ Roles() Roles }); ok {
 		roles = r.Roles()
@@ -158,7 +160,7 @@ func Run(ctx context.Context, src Source, sink Sink, o Options) (Summary, error)
 	work := func(ctx context.Context, _ int, b batch) (batch, error) {
 		n := b.chunk.Len()
 		if passthrough {
-			res := results.Get().(*Results)
+			res := results.Get()
 			res.Plan = o.Plan
 			res.reset(n)
 			if err := b.chunk.Encode(res); err != nil {
@@ -167,12 +169,12 @@ func Run(ctx context.Context, src Source, sink Sink, o Options) (Summary, error)
 			b.res = res
 			return b, nil
 		}
-		in := inputs.Get().(*Inputs)
+		in := inputs.Get()
 		defer inputs.Put(in)
 		in.Reset(n)
 		b.chunk.Extract(in)
 
-		res := results.Get().(*Results)
+		res := results.Get()
 		res.Plan = o.Plan
 		res.reset(n)
 		copy(res.Zone, in.Zone)

@@ -21,11 +21,11 @@ import (
 	"fmt"
 	"io"
 	"strings"
-	"sync"
 	"sync/atomic"
 	"time"
 
 	"github.com/heliotag/heliotag/enrich"
+	"github.com/heliotag/heliotag/internal/freelist"
 	"github.com/heliotag/heliotag/io/internal/fields"
 	"github.com/heliotag/heliotag/io/internal/num"
 )
@@ -62,8 +62,8 @@ type Reader struct {
 	line    int64 // lines consumed so far
 	counter *countingReader
 	size    int64
-	outPool *sync.Pool // encoded output buffers (*[]byte), returned once written
-	inPool  *sync.Pool // chunks (*chunk) with their buffers, returned once written
+	outPool *freelist.List[*[]byte] // encoded output buffers, returned once written
+	inPool  *freelist.List[*chunk]  // chunks with their buffers, returned once written
 }
 
 // countingReader counts the bytes read; the count is read from the writer
@@ -92,8 +92,10 @@ func NewReader(r io.Reader, size int64, o Options) (*Reader, error) {
 	}
 	cr := &countingReader{r: r}
 	rd := &Reader{r: bufio.NewReaderSize(cr, 1<<20), delim: d, counter: cr, size: size}
-	rd.outPool = &sync.Pool{New: func() any { return new([]byte) }}
-	rd.inPool = &sync.Pool{New: func() any { return new(chunk) }}
+	// Free lists rather than sync.Pool: their buffers survive collections,
+	// so a long run stops allocating once its batches in flight have theirs.
+	rd.outPool = freelist.New(freeListSize, func() *[]byte { return new([]byte) })
+	rd.inPool = freelist.New(freeListSize, func() *chunk { return new(chunk) })
 	if b, err := rd.r.Peek(3); err == nil && bytes.Equal(b, []byte{0xEF, 0xBB, 0xBF}) {
 		rd.bom = true
 		_, _ = rd.r.Discard(3)
@@ -220,7 +222,7 @@ func (rd *Reader) Next(ctx context.Context, max int) (enrich.Chunk, error) {
 		return nil, context.Cause(ctx)
 	}
 	// Chunks come back to the pool once written, with their buffers.
-	c := rd.inPool.Get().(*chunk)
+	c := rd.inPool.Get()
 	c.rd = rd
 	c.buf, c.starts, c.ends, c.lines = c.buf[:0], c.starts[:0], c.ends[:0], c.lines[:0]
 	if cap(c.buf) == 0 {
@@ -350,12 +352,14 @@ func (c *chunk) Values(i int) []string {
 }
 
 func (c *chunk) Encode(res *enrich.Results) error {
-	out := c.rd.outPool.Get().(*[]byte)
+	out := c.rd.outPool.Get()
 	b := (*out)[:0]
 	// Room for the records and the added columns (about 26 bytes each at
 	// most: an RFC 3339 instant with offset), so that appending never grows.
+	// A new buffer gets a quarter more, so that a reused one nearly always
+	// fits the next chunk.
 	if need := len(c.buf) + len(c.ends)*(2+26*len(res.Plan.Columns)); cap(b) < need {
-		b = make([]byte, 0, need)
+		b = make([]byte, 0, need+need/4)
 	}
 	eol := c.rd.eol()
 	d := c.rd.delim
@@ -430,6 +434,10 @@ func appendColumns(b []byte, res *enrich.Results, i int, d byte) []byte {
 	}
 	return b
 }
+
+// freeListSize bounds the chunks and buffers kept for reuse; a run keeps only
+// as many as it had in use at once (its batches in flight).
+const freeListSize = 256
 
 // directWrite is the size from which an encoded chunk bypasses the output
 // buffer.
