@@ -123,7 +123,17 @@ func enrichPackage(ctx context.Context, o Options) (res Result, err error) {
 		}
 	}()
 	var added []camtrap.Added
-	var rowsBefore int64
+	// Progress runs over every table: rows so far, and bytes of all the
+	// tables' files (unknown, 0, when one is gzipped).
+	prog := progress{}
+	for _, t := range tables {
+		n := pkg.Size(t)
+		if n == 0 {
+			prog.total = 0
+			break
+		}
+		prog.total += n
+	}
 	for _, t := range tables {
 		tr := TableResult{Table: t, Output: filepath.Join(o.Output, camtrap.SunName(t)+".csv")}
 		var rf *outfile.File
@@ -134,11 +144,12 @@ func enrichPackage(ctx context.Context, o Options) (res Result, err error) {
 			rejFiles = append(rejFiles, rf)
 			tr.Rejects = rejects[t]
 		}
-		if tr.Summary, err = enrichTable(ctx, o, pkg, deps, copts, t, plans[t], dir.Path(), rf, rowsBefore); err != nil {
+		if tr.Summary, err = enrichTable(ctx, o, pkg, deps, copts, t, plans[t], dir.Path(), rf, prog); err != nil {
 			res.Tables = append(res.Tables, tr)
 			return res, fmt.Errorf("%s: %w", t, err)
 		}
-		rowsBefore += tr.Summary.Read
+		prog.rows += tr.Summary.Read
+		prog.done += pkg.Size(t)
 		res.Tables = append(res.Tables, tr)
 		added = append(added, camtrap.Added{Table: t, Plan: plans[t], At: at, Generator: "heliotag " + Version})
 	}
@@ -166,9 +177,13 @@ func enrichPackage(ctx context.Context, o Options) (res Result, err error) {
 	return res, nil
 }
 
+// progress is what the tables before the current one have done: rows and
+// bytes, and the bytes of every table (0 when unknown).
+type progress struct{ rows, done, total int64 }
+
 // enrichTable runs one table through enrich.Run into dir/<table>-sun.csv.
 func enrichTable(ctx context.Context, o Options, pkg *camtrap.Package, deps *camtrap.Deployments, copts camtrap.Options,
-	table string, plan *enrich.Plan, dir string, rejects *outfile.File, rowsBefore int64) (sum enrich.Summary, err error) {
+	table string, plan *enrich.Plan, dir string, rejects *outfile.File, before progress) (sum enrich.Summary, err error) {
 	rd, err := pkg.NewReader(table, deps, copts)
 	if err != nil {
 		return sum, err
@@ -196,8 +211,8 @@ func enrichTable(ctx context.Context, o Options, pkg *camtrap.Package, deps *cam
 	}
 	if o.OnProgress != nil {
 		eo.OnProgress = func(rows int64) {
-			done, total := rd.Position()
-			o.OnProgress(rowsBefore+rows, done, total)
+			done, _ := rd.Position()
+			o.OnProgress(before.rows+rows, before.done+done, before.total)
 		}
 	}
 	sum, err = enrich.Run(ctx, rd, sink, eo)

@@ -304,3 +304,22 @@ func TestPackageReport(t *testing.T) {
 		assert.Contains(t, s, want)
 	}
 }
+
+func TestPackageProgress(t *testing.T) {
+	dir := t.TempDir()
+	pkg := writePackage(t, filepath.Join(dir, "pkg"), smallDeployments, smallMedia, smallObservations)
+	var rows, done, total int64
+	calls := 0
+	_, err := Enrich(context.Background(), Options{Input: pkg, Output: filepath.Join(dir, "out"), Tables: "observations,media",
+		Policy: enrich.PolicySkip, BatchRows: 1, Workers: 1,
+		OnProgress: func(r, d, tot int64) {
+			assert.GreaterOrEqual(t, r, rows, "rows only grow")
+			rows, done, total = r, d, tot
+			calls++
+		}}, nil, nil)
+	require.NoError(t, err)
+	assert.Equal(t, 5, calls, "one call per batch of one row over both tables")
+	assert.Equal(t, int64(5), rows)
+	assert.Equal(t, int64(len(smallObservations)+len(smallMedia)), total)
+	assert.Equal(t, total, done)
+}

@@ -115,6 +115,9 @@ type Resource struct {
 	Paths []string
 	// Format and Mediatype as the descriptor gives them ("" when absent).
 	Format, Mediatype string
+	// Delimiter is the CSV dialect's delimiter (',' unless the resource's
+	// "dialect" names another single character).
+	Delimiter rune
 }
 
 // IsPackage reports whether path names a datapackage.json or a folder that
@@ -173,11 +176,17 @@ func Open(path string) (*Package, error) {
 			Path      json.RawMessage `json:"path"`
 			Format    string          `json:"format"`
 			Mediatype string          `json:"mediatype"`
+			Dialect   struct {
+				Delimiter string `json:"delimiter"`
+			} `json:"dialect"`
 		}
 		if err := json.Unmarshal(r, &v); err != nil {
 			return nil, fmt.Errorf("%w: %s: resource %d: %w", ErrResource, desc, i+1, err)
 		}
-		res := &Resource{Name: v.Name, Format: v.Format, Mediatype: v.Mediatype}
+		res := &Resource{Name: v.Name, Format: v.Format, Mediatype: v.Mediatype, Delimiter: ','}
+		if d := []rune(v.Dialect.Delimiter); len(d) == 1 && d[0] != '"' && d[0] != '\n' && d[0] != '\r' {
+			res.Delimiter = d[0]
+		}
 		var one string
 		if err := json.Unmarshal(v.Path, &one); err == nil {
 			res.Paths = []string{one}
@@ -204,6 +213,31 @@ func (p *Package) member(key string) (json.RawMessage, bool) {
 		}
 	}
 	return nil, false
+}
+
+// Size returns the total size in bytes of a table's files, or 0 when it is
+// unknown (a file is missing or gzipped: its decoded size is not known).
+func (p *Package) Size(name string) int64 {
+	r, ok := p.byName[name]
+	if !ok {
+		return 0
+	}
+	var n int64
+	for _, path := range r.Paths {
+		f, err := os.Open(filepath.Join(p.Dir, filepath.FromSlash(path)))
+		if err != nil {
+			return 0
+		}
+		var magic [2]byte
+		_, _ = io.ReadFull(f, magic[:])
+		st, err := f.Stat()
+		f.Close()
+		if err != nil || (magic[0] == 0x1f && magic[1] == 0x8b) {
+			return 0
+		}
+		n += st.Size()
+	}
+	return n
 }
 
 // Resource returns the resource named name, checked to be readable: local

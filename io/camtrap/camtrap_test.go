@@ -355,3 +355,24 @@ func TestCheckAdd(t *testing.T) {
 	require.NoError(t, err)
 	assert.ErrorIs(t, p.CheckAdd([]string{TableObservations}), ErrResource)
 }
+
+func TestDialectAndSize(t *testing.T) {
+	files := map[string]string{}
+	for k, v := range miniFiles {
+		files[k] = v
+	}
+	files["observations.csv"] = "observationID;deploymentID;eventStart\no1;d1;2024-01-10T12:00:00+01:00\n"
+	res := strings.Replace(threeTables, `"path": "observations.csv"`, `"path": "observations.csv", "dialect": {"delimiter": ";"}`, 1)
+	dir := miniPackage(t, profileURL("1.0"), res, files)
+	_, c, in := extract(t, dir, TableObservations, Options{})
+	require.Equal(t, 1, c.Len())
+	assert.NoError(t, in.Err[0])
+	assert.Equal(t, time.Date(2024, 1, 10, 11, 0, 0, 0, time.UTC), in.Time[0].UTC())
+
+	p, err := Open(dir)
+	require.NoError(t, err)
+	assert.Equal(t, int64(len(files["observations.csv"])), p.Size(TableObservations))
+	p, err = Open(testPackage)
+	require.NoError(t, err)
+	assert.Equal(t, int64(0), p.Size(TableMedia), "a gzipped file: unknown")
+}

@@ -20,6 +20,7 @@ import (
 type table struct {
 	name   string
 	dir    string
+	delim  rune
 	paths  []string
 	header []string
 	next   int // index of the next file to open
@@ -47,7 +48,10 @@ func (c counter) Read(p []byte) (int, error) {
 
 // openTable opens the resource's first file and reads its header.
 func openTable(p *Package, r *Resource) (*table, error) {
-	t := &table{name: r.Name, dir: p.Dir, paths: r.Paths, count: &counter{n: new(atomic.Int64)}}
+	t := &table{name: r.Name, dir: p.Dir, delim: r.Delimiter, paths: r.Paths, count: &counter{n: new(atomic.Int64)}}
+	if t.delim == 0 {
+		t.delim = ','
+	}
 	for _, path := range r.Paths {
 		st, err := os.Stat(filepath.Join(p.Dir, filepath.FromSlash(path)))
 		if err != nil {
@@ -87,6 +91,7 @@ func (t *table) open() error {
 		_, _ = bom.Discard(3)
 	}
 	t.r = csv.NewReader(bom)
+	t.r.Comma = t.delim
 	t.r.FieldsPerRecord = -1
 	h, err := t.r.Read()
 	if err == io.EOF {
@@ -94,9 +99,6 @@ func (t *table) open() error {
 	}
 	if err != nil {
 		return fmt.Errorf("%w: resource %q: %s: %w", ErrResource, t.name, path, err)
-	}
-	if len(h) > 0 {
-		h[len(h)-1] = strings.TrimSuffix(h[len(h)-1], "\r")
 	}
 	if t.header == nil {
 		t.header = h
