@@ -109,7 +109,7 @@ func enrichPackage(ctx context.Context, o Options) (res Result, err error) {
 		}
 	}
 
-	dir, err := outfile.CreateDir(o.Output)
+	dir, err := outfile.CreateDir(o.Output, o.Force)
 	if err != nil {
 		return res, err
 	}

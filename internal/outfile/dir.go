@@ -25,6 +25,7 @@ var (
 type Dir struct {
 	tmp    string
 	target string
+	force  bool
 	done   bool
 }
 
@@ -111,22 +112,24 @@ func within(path, dir string) bool {
 }
 
 // CreateDir makes a temporary folder beside target:
-// ".heliotag-<target name>-<random>.tmp", recognised by IsTemp.
-func CreateDir(target string) (*Dir, error) {
+// ".heliotag-<target name>-<random>.tmp", recognised by IsTemp. force says
+// whether Commit may replace a target that exists by then.
+func CreateDir(target string, force bool) (*Dir, error) {
 	tmp, err := os.MkdirTemp(filepath.Dir(filepath.Clean(target)), TempPattern(filepath.Clean(target)))
 	if err != nil {
 		return nil, fmt.Errorf("creating output folder next to %s: %w", target, err)
 	}
-	return &Dir{tmp: tmp, target: filepath.Clean(target)}, nil
+	return &Dir{tmp: tmp, target: filepath.Clean(target), force: force}, nil
 }
 
 // Path is the temporary folder to write into.
 func (d *Dir) Path() string { return d.tmp }
 
 // Commit makes the folder readable (0755), syncs it and renames it to the
-// target. An existing target (allowed by CheckDir with force) is first moved
-// aside to a temporary name and removed after the rename; if the rename
-// fails, it is put back.
+// target. With force, an existing target is first moved aside to a
+// temporary name and removed after the rename (if the rename fails, it is
+// put back); without force, a target that has appeared since CheckDir is an
+// ErrExists error and is left alone.
 func (d *Dir) Commit() error {
 	if d.done {
 		return errors.New("outfile: already committed or aborted")
@@ -144,6 +147,9 @@ func (d *Dir) Commit() error {
 	}
 	var old string
 	if _, err := os.Lstat(d.target); err == nil {
+		if !d.force {
+			return fail(fmt.Errorf("%w: %s appeared during the run; add --force to replace it", ErrExists, d.target))
+		}
 		old = strings.TrimSuffix(d.tmp, ".tmp") + "-replaced.tmp"
 		if err := os.Rename(d.target, old); err != nil {
 			return fail(err)

@@ -66,7 +66,7 @@ func TestDirCommitAndAbort(t *testing.T) {
 	root := t.TempDir()
 	target := filepath.Join(root, "out")
 
-	d, err := CreateDir(target)
+	d, err := CreateDir(target, false)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -84,8 +84,21 @@ func TestDirCommitAndAbort(t *testing.T) {
 		t.Fatalf("after Commit: %q, %v", b, err)
 	}
 
+	// Without force, a target that appeared meanwhile is left alone.
+	d, err = CreateDir(target, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	writeFile(t, filepath.Join(d.Path(), "b.csv"), "newer")
+	if err := d.Commit(); !errors.Is(err, ErrExists) {
+		t.Fatalf("Commit over an existing target without force: %v", err)
+	}
+	if b, err := os.ReadFile(filepath.Join(target, "a.csv")); err != nil || string(b) != "new" {
+		t.Fatalf("the existing target changed: %q, %v", b, err)
+	}
+
 	// Replacing: the old content goes, nothing temporary is left.
-	d, err = CreateDir(target)
+	d, err = CreateDir(target, true)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -98,7 +111,7 @@ func TestDirCommitAndAbort(t *testing.T) {
 	}
 
 	// Abort: no trace.
-	d, err = CreateDir(filepath.Join(root, "never"))
+	d, err = CreateDir(filepath.Join(root, "never"), false)
 	if err != nil {
 		t.Fatal(err)
 	}
