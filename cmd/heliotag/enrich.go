@@ -44,8 +44,9 @@ the location comes from each row's deployment, observations are computed at
 eventStart (--at start|middle|end) and media at their timestamp; --tables
 chooses observations (default), media or both. -o names a new package
 folder: the input files are copied unchanged and <table>-sun.csv is added
-with its Table Schema. sun_time_note says outside_deployment or
-timestamp_issues; a row whose deployment is missing is a bad row.
+with its Table Schema. glare uses the deployment's cameraHeading.
+sun_time_note says outside_deployment or timestamp_issues; a row whose
+deployment is missing is a bad row.
 
 Exit codes: 0 every row enriched; 1 finished, some rows skipped or kept with
 errors; 2 fatal (usage, unreadable input, I/O error, first bad row under fail).
