@@ -136,7 +136,8 @@ func IsPackage(path string) bool {
 
 // Open reads the descriptor at path (a datapackage.json, or the folder that
 // holds one) and checks that it is a Camtrap DP package with the three
-// tables.
+// tables, and that every resource's local file exists (they are all copied
+// into the output).
 func Open(path string) (*Package, error) {
 	desc := path
 	if st, err := os.Stat(path); err == nil && st.IsDir() {
@@ -201,6 +202,24 @@ func Open(path string) (*Package, error) {
 	for _, name := range []string{TableDeployments, TableMedia, TableObservations} {
 		if _, err := p.Resource(name); err != nil {
 			return nil, err
+		}
+	}
+	// Every local file is copied into the output: check them all now.
+	for _, r := range p.order {
+		for _, path := range r.Paths {
+			if strings.Contains(path, "://") {
+				continue
+			}
+			if err := checkPath(path); err != nil {
+				return nil, fmt.Errorf("resource %q: %w", r.Name, err)
+			}
+			st, err := os.Stat(filepath.Join(p.Dir, filepath.FromSlash(path)))
+			if err != nil {
+				return nil, fmt.Errorf("%w: resource %q: %w", ErrResource, r.Name, err)
+			}
+			if !st.Mode().IsRegular() {
+				return nil, fmt.Errorf("%w: resource %q: %s is not a file", ErrResource, r.Name, path)
+			}
 		}
 	}
 	return p, nil

@@ -79,6 +79,8 @@ func TestOpenErrors(t *testing.T) {
 		{"climbing out", profileURL("1.0"), `[{"name": "deployments", "path": "../d.csv"}, {"name": "media", "path": "m.csv"}, {"name": "observations", "path": "o.csv"}]`, nil, ErrResource, "leaves the package"},
 		{"absolute", profileURL("1.0"), `[{"name": "deployments", "path": "/etc/d.csv"}, {"name": "media", "path": "m.csv"}, {"name": "observations", "path": "o.csv"}]`, nil, ErrResource, "relative"},
 		{"no resources", profileURL("1.0"), `"none"`, nil, ErrNotPackage, "resources"},
+		{"missing file", profileURL("1.0"), threeTables, map[string]string{"deployments.csv": "x\n", "observations.csv": "x\n"}, ErrResource, "media.csv"},
+		{"other resource outside", profileURL("1.0"), strings.Replace(threeTables, `]`, `, {"name": "notes", "path": "../notes.txt"}]`, 1), miniFiles, ErrResource, "leaves the package"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -345,13 +347,17 @@ func TestCheckAdd(t *testing.T) {
 	p, err := Open(testPackage)
 	require.NoError(t, err)
 	assert.NoError(t, p.CheckAdd(Tables))
+	files := map[string]string{"x.csv": "a\n", "observations-sun.csv": "a\n"}
+	for k, v := range miniFiles {
+		files[k] = v
+	}
 	res := strings.Replace(threeTables, `]`, `, {"name": "media-sun", "path": "x.csv"}]`, 1)
-	p, err = Open(miniPackage(t, profileURL("1.0"), res, miniFiles))
+	p, err = Open(miniPackage(t, profileURL("1.0"), res, files))
 	require.NoError(t, err)
 	assert.NoError(t, p.CheckAdd([]string{TableObservations}))
 	assert.ErrorIs(t, p.CheckAdd(Tables), ErrResource)
 	res = strings.Replace(threeTables, `]`, `, {"name": "other", "path": "observations-sun.csv"}]`, 1)
-	p, err = Open(miniPackage(t, profileURL("1.0"), res, miniFiles))
+	p, err = Open(miniPackage(t, profileURL("1.0"), res, files))
 	require.NoError(t, err)
 	assert.ErrorIs(t, p.CheckAdd([]string{TableObservations}), ErrResource)
 }
