@@ -288,7 +288,7 @@ if [ "$micro" = 1 ]; then
 	for b in "${benches[@]}"; do
 		read -r pkg pattern <<<"$b"
 		cmd=(go test -run '^$' -bench "$pattern" -benchtime "$benchtime" "$pkg")
-		echo "${cmd[*]}" | tee -a "$microout"
+		echo "go test -run '^\$' -bench '$pattern' -benchtime $benchtime $pkg" | tee -a "$microout"
 		"${cmd[@]}" 2>&1 | grep -v '^\(goos\|goarch\|cpu\|pkg\): ' | tee -a "$microout"
 	done
 fi
