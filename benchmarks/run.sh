@@ -13,7 +13,8 @@
 # benchmarks/data/ (git ignores it) with benchmarks/gen, reads it once to
 # have it in the page cache, then times under /usr/bin/time:
 #   read-only      benchmarks/readonly: the reader's pass alone (no sun
-#                  columns, nothing written);
+#                  columns, nothing written; see its doc for what it can and
+#                  cannot reuse);
 #   passthrough    heliotag enrich --add none: the same reader and writer,
 #                  no sun columns, 2 workers;
 #   default        heliotag enrich, default columns (position, phase), 2 workers;
@@ -159,7 +160,9 @@ load_after=$(cut -d' ' -f1-3 /proc/loadavg)
 # The table and the targets, from the measured values.
 table=$work/table.md
 awk -F'\t' '
-function label(r) {
+function label(r, format) {
+	if (r == "read" && format == "parquet") return "read-only (pqarrow)"
+	if (r == "read" && format != "") return "read-only (no buffer reuse)"
 	if (r == "read") return "read-only"
 	if (r == "passthrough") return "passthrough (--add none)"
 	if (r == "default") return "enrich default"
@@ -192,7 +195,7 @@ END {
 				sp = sprintf("%.2f×", wall[key, "default-w1"] / w)
 			rate = "n/a"; mbs = "n/a"; cores = "n/a"
 			if (w > 0) { rate = sprintf("%.0f", f[3] / w); mbs = sprintf("%.1f", bytes[key] / 1e6 / w); cores = sprintf("%.2f", c / w) }
-			printf "| %s | %s | %s | %s | %.2f | %.2f | %s | %s | %s | %.1f | %s | %s | %s |\n", f[1], f[2], f[3], label(r), w, c, cores, rate, mbs, rss[key, r], rw, rc, sp
+			printf "| %s | %s | %s | %s | %.2f | %.2f | %s | %s | %s | %.1f | %s | %s | %s |\n", f[1], f[2], f[3], label(r, f[1]), w, c, cores, rate, mbs, rss[key, r], rw, rc, sp
 		}
 	}
 	print ""
