@@ -293,54 +293,62 @@ func writeBenchFile(b *testing.B, path string, n int) {
 // compression of one 65,536-row batch of the benchmark file's shape), as a
 // passthrough (no added columns) and with the default columns.
 func BenchmarkWriter(b *testing.B) {
-	const n = 65536
+	for _, add := range []string{"none", "position,phase"} {
+		b.Run(fmt.Sprintf("add=%s/n=%d", add, benchWriterRows), func(b *testing.B) {
+			benchWriter(b, add, WriterOptions{Workers: 1})
+		})
+	}
+}
+
+const benchWriterRows = 65536
+
+// benchWriter writes one encoded batch of benchWriterRows rows of the
+// benchmark file's shape, with the columns of add, b.N times.
+func benchWriter(b *testing.B, add string, o WriterOptions) {
+	const n = benchWriterRows
 	path := filepath.Join(b.TempDir(), "events.parquet")
 	writeBenchFile(b, path, n)
 	in, err := os.ReadFile(path)
 	if err != nil {
 		b.Fatal(err)
 	}
-	for _, add := range []string{"none", "position,phase"} {
-		b.Run(fmt.Sprintf("add=%s/n=%d", add, n), func(b *testing.B) {
-			rd, err := NewReader(bytes.NewReader(in), Options{})
-			if err != nil {
-				b.Fatal(err)
-			}
-			defer rd.Close()
-			ch, err := rd.Next(context.Background(), n)
-			if err != nil {
-				b.Fatal(err)
-			}
-			c := ch.(*chunk)
-			defer c.release()
-			plan, _ := enrich.NewPlan(enrich.PlanOptions{Add: add, Input: rd.Columns()})
-			res := benchResults(n, plan)
-			clear(res.Status)
-			if err := c.Encode(res); err != nil {
-				b.Fatal(err)
-			}
-			w, err := NewWriter(io.Discard, rd, plan, WriterOptions{})
-			if err != nil {
-				b.Fatal(err)
-			}
-			b.ReportAllocs()
-			b.ResetTimer()
-			for range b.N {
-				// A chunk sharing the encoded batch; Write releases its references.
-				c.rec.Retain()
-				c.out.Retain()
-				cc := &chunk{rd: rd, rec: c.rec, out: c.out}
-				rd.mu.Lock()
-				rd.live[cc] = struct{}{}
-				rd.mu.Unlock()
-				if err := w.Write(context.Background(), cc); err != nil {
-					b.Fatal(err)
-				}
-			}
-			if err := w.Close(); err != nil {
-				b.Fatal(err)
-			}
-			b.ReportMetric(float64(n*b.N)/b.Elapsed().Seconds(), "rows/s")
-		})
+	rd, err := NewReader(bytes.NewReader(in), Options{})
+	if err != nil {
+		b.Fatal(err)
 	}
+	defer rd.Close()
+	ch, err := rd.Next(context.Background(), n)
+	if err != nil {
+		b.Fatal(err)
+	}
+	c := ch.(*chunk)
+	defer c.release()
+	plan, _ := enrich.NewPlan(enrich.PlanOptions{Add: add, Input: rd.Columns()})
+	res := benchResults(n, plan)
+	clear(res.Status)
+	if err := c.Encode(res); err != nil {
+		b.Fatal(err)
+	}
+	w, err := NewWriter(io.Discard, rd, plan, o)
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	b.ResetTimer()
+	for range b.N {
+		// A chunk sharing the encoded batch; Write releases its references.
+		c.rec.Retain()
+		c.out.Retain()
+		cc := &chunk{rd: rd, rec: c.rec, out: c.out}
+		rd.mu.Lock()
+		rd.live[cc] = struct{}{}
+		rd.mu.Unlock()
+		if err := w.Write(context.Background(), cc); err != nil {
+			b.Fatal(err)
+		}
+	}
+	if err := w.Close(); err != nil {
+		b.Fatal(err)
+	}
+	b.ReportMetric(float64(n*b.N)/b.Elapsed().Seconds(), "rows/s")
 }

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"errors"
+	"fmt"
 	"io"
 	"os"
 	"path/filepath"
@@ -33,7 +34,8 @@ func (w *failingWriter) Write(p []byte) (int, error) {
 // TestFailedRunsReleaseMemory: a write error, a cancelled context and a bad
 // row under fail all stop the run with batches in flight; closing the
 // reader releases every one (the checked allocator would report a leak),
-// and no goroutine outlives the run.
+// and no goroutine outlives the run; with the columns encoded on one
+// goroutine and on several.
 func TestFailedRunsReleaseMemory(t *testing.T) {
 	defer goleak.VerifyNone(t)
 	in := generated(t, 20_000, 5)
@@ -53,39 +55,41 @@ func TestFailedRunsReleaseMemory(t *testing.T) {
 		{"bad row under fail", func() io.Writer { return io.Discard }, nil, enrich.PolicyFail, enrich.ErrBadRow},
 	}
 	for _, tc := range cases {
-		t.Run(tc.name, func(t *testing.T) {
-			mem := checkedMem(t)
-			rd, err := NewReader(bytes.NewReader(in), Options{Allocator: mem})
-			if err != nil {
-				t.Fatal(err)
-			}
-			plan, err := enrich.NewPlan(enrich.PlanOptions{Input: rd.Columns()})
-			if err != nil {
-				t.Fatal(err)
-			}
-			w, err := NewWriter(tc.out(), rd, plan, WriterOptions{RowGroupRows: 4096})
-			if err != nil {
-				t.Fatal(err)
-			}
-			ctx := context.Background()
-			if tc.ctx != nil {
-				var cancel context.CancelFunc
-				ctx, cancel = tc.ctx()
-				defer cancel()
-			}
-			_, err = enrich.Run(ctx, rd, w, enrich.Options{Plan: plan, Policy: tc.policy, Workers: 2, BatchRows: 512})
-			if cerr := w.Close(); err == nil {
-				err = cerr
-			}
-			rd.Close()
-			if err == nil {
-				t.Fatal("the run did not fail")
-			}
-			var re *enrich.RowError
-			if !errors.Is(err, tc.want) && !(tc.want == enrich.ErrBadRow && errors.As(err, &re)) {
-				t.Errorf("error %v, want %v", err, tc.want)
-			}
-		})
+		for _, workers := range []int{1, 2} {
+			t.Run(fmt.Sprintf("%s/writer workers %d", tc.name, workers), func(t *testing.T) {
+				mem := checkedMem(t)
+				rd, err := NewReader(bytes.NewReader(in), Options{Allocator: mem})
+				if err != nil {
+					t.Fatal(err)
+				}
+				plan, err := enrich.NewPlan(enrich.PlanOptions{Input: rd.Columns()})
+				if err != nil {
+					t.Fatal(err)
+				}
+				w, err := NewWriter(tc.out(), rd, plan, WriterOptions{RowGroupRows: 4096, Workers: workers})
+				if err != nil {
+					t.Fatal(err)
+				}
+				ctx := context.Background()
+				if tc.ctx != nil {
+					var cancel context.CancelFunc
+					ctx, cancel = tc.ctx()
+					defer cancel()
+				}
+				_, err = enrich.Run(ctx, rd, w, enrich.Options{Plan: plan, Policy: tc.policy, Workers: 2, BatchRows: 512})
+				if cerr := w.Close(); err == nil {
+					err = cerr
+				}
+				rd.Close()
+				if err == nil {
+					t.Fatal("the run did not fail")
+				}
+				var re *enrich.RowError
+				if !errors.Is(err, tc.want) && !(tc.want == enrich.ErrBadRow && errors.As(err, &re)) {
+					t.Errorf("error %v, want %v", err, tc.want)
+				}
+			})
+		}
 	}
 }
 

@@ -110,6 +110,8 @@ type runResult struct {
 	sum     enrich.Summary
 	rejects string
 	err     error
+	// parallel: the writer encoded columns on several goroutines.
+	parallel bool
 }
 
 // enrichFile runs the enrich pipeline over a Parquet input held in memory
@@ -152,7 +154,7 @@ func enrichFile(t testing.TB, in []byte, o runOpts) runResult {
 	if cerr := w.Close(); err == nil {
 		err = cerr
 	}
-	return runResult{out: out.Bytes(), sum: sum, rejects: rej.String(), err: err}
+	return runResult{out: out.Bytes(), sum: sum, rejects: rej.String(), err: err, parallel: w.cols != nil}
 }
 
 // readTable reads a whole Parquet file back with pqarrow (the caller

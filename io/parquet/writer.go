@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"runtime"
 	"sort"
 	"strings"
 
@@ -42,6 +43,13 @@ type WriterOptions struct {
 	// DefaultRowGroupRows. A row group is also closed early when it reaches
 	// 128 MiB compressed.
 	RowGroupRows int
+	// Workers is the number of goroutines that encode and compress the
+	// columns of each block of rows at once (the goroutine calling Write
+	// among them); 0 means runtime.NumCPU(), as in enrich.Options, and 1
+	// encodes the columns one after another. The output's bytes do not
+	// depend on it. Schemas with nested (list, struct, map) or extension
+	// columns are always encoded one column after another.
+	Workers int
 
 	// dataPageSize is the target data page size in bytes, 0 meaning the
 	// library's (1 MiB); tests make it small to cut many pages.
@@ -72,7 +80,8 @@ func ParseCompression(name string) (compress.Compression, error) {
 type Writer struct {
 	rd          *Reader
 	bw          *bufio.Writer
-	fw          *pqarrow.FileWriter
+	fw          *pqarrow.FileWriter // one goroutine; nil when cols is set
+	cols        *columnSet          // several goroutines
 	schema      *arrow.Schema
 	rows        int64 // rows written
 	groupRows   int64 // rows per row group
@@ -96,6 +105,13 @@ func NewWriter(w io.Writer, rd *Reader, plan *enrich.Plan, o WriterOptions) (*Wr
 	}
 	if rows == 0 {
 		rows = DefaultRowGroupRows
+	}
+	if o.Workers < 0 {
+		return nil, fmt.Errorf("%w: %d writer workers; it must be positive", enrich.ErrUsage, o.Workers)
+	}
+	workers := o.Workers
+	if workers == 0 {
+		workers = runtime.NumCPU()
 	}
 	out := rd.output(plan)
 	arrProps := pqarrow.NewArrowWriterProperties(pqarrow.WithStoreSchema(), pqarrow.WithAllocator(rd.mem))
@@ -157,11 +173,22 @@ func NewWriter(w io.Writer, rd *Reader, plan *enrich.Plan, o WriterOptions) (*Wr
 		arrProps = pqarrow.NewArrowWriterProperties(pqarrow.WithStoreSchema(), pqarrow.WithAllocator(rd.mem), pqarrow.WithDeprecatedInt96Timestamps(true))
 	}
 	bw := bufio.NewWriterSize(w, 1<<20)
-	fw, err := pqarrow.NewFileWriter(out.schema, hideClose{bw}, pq.NewWriterProperties(opts...), arrProps)
-	if err != nil {
+	props := pq.NewWriterProperties(opts...)
+	wr := &Writer{rd: rd, bw: bw, schema: out.schema, groupRows: int64(rows)}
+	if workers > 1 {
+		cols, ok, err := newColumnSet(out.schema, hideClose{bw}, props, arrProps, true, workers)
+		if err != nil {
+			return nil, fmt.Errorf("parquet: starting the output: %w", err)
+		}
+		if ok {
+			wr.cols = cols
+			return wr, nil
+		}
+	}
+	if wr.fw, err = pqarrow.NewFileWriter(out.schema, hideClose{bw}, props, arrProps); err != nil {
 		return nil, fmt.Errorf("parquet: starting the output: %w", err)
 	}
-	return &Writer{rd: rd, bw: bw, fw: fw, schema: out.schema, groupRows: int64(rows)}, nil
+	return wr, nil
 }
 
 func hasInstants(plan *enrich.Plan) bool {
@@ -355,6 +382,17 @@ func (w *Writer) flushPending() error {
 // writeBlock writes one block into the current row group, starting a new
 // group when the current one is full (in rows, or in compressed bytes).
 func (w *Writer) writeBlock(rec arrow.RecordBatch) error {
+	if w.cols != nil {
+		if err := w.cols.write(rec, w.rowsInGroup == 0); err != nil {
+			return fmt.Errorf("writing output: %w", err)
+		}
+		w.rows += rec.NumRows()
+		w.rowsInGroup += rec.NumRows()
+		if w.rowsInGroup == w.groupRows || w.cols.rowGroupCompressedBytes() >= maxRowGroupBytes {
+			w.rowsInGroup = 0
+		}
+		return nil
+	}
 	if w.rowsInGroup == 0 {
 		if err := w.fw.NewBufferedRowGroupChecked(); err != nil {
 			return fmt.Errorf("writing output: %w", err)
@@ -380,8 +418,14 @@ func (w *Writer) Close() (err error) {
 	}
 	w.closed = true
 	ferr := w.flushPending()
-	if err := w.fw.Close(); err != nil && ferr == nil {
-		ferr = err
+	var err2 error
+	if w.cols != nil {
+		err2 = w.cols.close()
+	} else {
+		err2 = w.fw.Close()
+	}
+	if err2 != nil && ferr == nil {
+		ferr = err2
 	}
 	if ferr != nil {
 		return fmt.Errorf("writing output: %w", ferr)
