@@ -139,7 +139,7 @@ func Enrich(ctx context.Context, o Options, stdin io.Reader, stdout io.Writer) (
 		}
 	}
 
-	in, err := formats.Open(o.Input, f, stdin, formats.Options{Select: o.Select, Delimiter: o.Delimiter, RS: o.RS, Compression: o.Compression})
+	in, err := formats.Open(o.Input, f, stdin, formats.Options{Select: o.Select, Delimiter: o.Delimiter, RS: o.RS, Compression: o.Compression, Workers: o.Workers})
 	if err != nil {
 		return res, err
 	}

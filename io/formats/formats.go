@@ -90,6 +90,9 @@ type Options struct {
 	RS bool
 	// Compression is the Parquet output codec (--compression); "" keeps the input's.
 	Compression string
+	// Workers is the run's number of workers (--workers); the Parquet writer
+	// encodes that many columns at once. 0 means runtime.NumCPU().
+	Workers int
 }
 
 // Input is an opened input file with the writer that matches it.

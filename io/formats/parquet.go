@@ -30,7 +30,7 @@ func openParquet(in *Input, r io.Reader, path string, o Options) (*Input, error)
 	in.Source = rd
 	in.closer = closers{rd, in.closer}
 	in.newSink = func(w io.Writer, plan *enrich.Plan) (enrich.Sink, error) {
-		return parquet.NewWriter(w, rd, plan, parquet.WriterOptions{Compression: o.Compression})
+		return parquet.NewWriter(w, rd, plan, parquet.WriterOptions{Compression: o.Compression, Workers: o.Workers})
 	}
 	return in, nil
 }
