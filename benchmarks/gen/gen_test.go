@@ -29,8 +29,8 @@ func selectFor(shape, format string) enrich.Select {
 }
 
 // TestFormats writes every shape, variant and format, reads it back with
-// heliotag's readers and enriches it: the row count, the column count (7 or
-// 6 plus 30 wide) and the absence of bad rows are checked.
+// heliotag's readers and enriches it: the row count, the column count (plus
+// 30 when wide) and the absence of bad rows are checked.
 func TestFormats(t *testing.T) {
 	const n = 1500 // more than one Parquet batch below
 	dir := t.TempDir()

@@ -72,7 +72,7 @@ var (
 //     2014–2023 on the wall clock of America/Chicago;
 //   - camera: 40 sites drawn once (latitudes −40° to 60°, longitudes −150°
 //     to 150°), instants over the three years 2020–2022 written with the
-//     site's whole-hour offset (longitude/15 h).
+//     site's offset (longitude/15 h, truncated to whole hours).
 func newShape(name string, wide bool, seed uint64) (*shape, error) {
 	rng := rand.New(rand.NewPCG(seed, 0x5eed))
 	s := &shape{name: name, rng: rng, wide: wide}
