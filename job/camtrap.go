@@ -30,6 +30,15 @@ type TableResult struct {
 // datapackage.json, or a folder holding one.
 func IsPackage(input string) bool { return input != "-" && camtrap.IsPackage(input) }
 
+// checkNotFolder refuses a folder that holds no datapackage.json (it is
+// neither a file nor a package).
+func checkNotFolder(input string) error {
+	if st, err := os.Stat(input); err == nil && st.IsDir() {
+		return fmt.Errorf("%w: %s is a folder without a %s; give a file, or the folder of a Camtrap DP package", enrich.ErrUsage, input, camtrap.DescriptorName)
+	}
+	return nil
+}
+
 // enrichPackage enriches a Camtrap DP package into a new package folder
 // (o.Output): the input files copied unchanged, one "<table>-sun.csv" per
 // table of o.Tables, and the datapackage.json with those tables added to its

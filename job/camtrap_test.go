@@ -237,10 +237,15 @@ func TestPackageOutputChecks(t *testing.T) {
 	pkgEntries, _ := os.ReadDir(pkg)
 	assert.Len(t, pkgEntries, 4, "nothing written into the input")
 
+	// A folder is a package only with its datapackage.json.
+	_, err := Enrich(ctx, Options{Input: dir, Output: filepath.Join(dir, "x")}, nil, nil)
+	assert.ErrorIs(t, err, enrich.ErrUsage)
+	assert.Contains(t, err.Error(), "folder without a datapackage.json")
+
 	// --at and --tables belong to packages.
 	csvIn := filepath.Join(dir, "in.csv")
 	require.NoError(t, os.WriteFile(csvIn, []byte("lat,lon,timestamp\n1,2,2024-01-01T00:00:00Z\n"), 0o644))
-	_, err := Enrich(ctx, Options{Input: csvIn, Output: filepath.Join(dir, "x.csv"), At: "end"}, nil, nil)
+	_, err = Enrich(ctx, Options{Input: csvIn, Output: filepath.Join(dir, "x.csv"), At: "end"}, nil, nil)
 	assert.ErrorIs(t, err, enrich.ErrUsage)
 	require.NoError(t, os.Remove(csvIn))
 

@@ -89,6 +89,9 @@ func Enrich(ctx context.Context, o Options, stdin io.Reader, stdout io.Writer) (
 	if IsPackage(o.Input) {
 		return enrichPackage(ctx, o)
 	}
+	if err := checkNotFolder(o.Input); err != nil {
+		return res, err
+	}
 	if o.At != "" || o.Tables != "" {
 		return res, fmt.Errorf("%w: --at and --tables apply to Camtrap DP packages (a datapackage.json or its folder)", enrich.ErrUsage)
 	}
