@@ -58,9 +58,34 @@ started=$(date -u '+%Y-%m-%d %H:%M UTC')
 t0=$(date +%s)
 load_before=$(cut -d' ' -f1-3 /proc/loadavg)
 
-go build -o bin/heliotag ./cmd/heliotag
-go build -o bin/heliotag-gen ./benchmarks/gen
-go build -o bin/heliotag-readonly ./benchmarks/readonly
+# What is measured: a full run builds and benchmarks the commit (HEAD,
+# extracted with git archive), so that the entry names exactly what ran even
+# while others edit the tree; a quick run, the working tree. SRC=head or
+# SRC=tree chooses.
+src_mode=${SRC:-}
+[ -n "$src_mode" ] || { [ "$mode" = full ] && src_mode=head || src_mode=tree; }
+repo=$(pwd)
+case $src_mode in
+head)
+	src=$work/src
+	mkdir -p "$src"
+	git archive HEAD | tar -x -C "$src"
+	built_from="commit $(git rev-parse --short HEAD) (git archive HEAD: uncommitted changes not included)"
+	;;
+tree)
+	src=$repo
+	built_from="the working tree at commit $(git rev-parse --short HEAD)"
+	dirty=$(git status --porcelain -- '*.go' 'go.mod' 'go.sum' | awk '{ print $2 }' | tr '\n' ' ')
+	[ -z "$dirty" ] || built_from="$built_from, with uncommitted changes in: $dirty"
+	;;
+*)
+	echo "SRC=$src_mode; valid: head, tree" >&2
+	exit 2
+	;;
+esac
+(cd "$src" && go build -o "$repo/bin/heliotag" ./cmd/heliotag)
+(cd "$src" && go build -o "$repo/bin/heliotag-gen" ./benchmarks/gen)
+(cd "$src" && go build -o "$repo/bin/heliotag-readonly" ./benchmarks/readonly)
 
 # Data sets: format shape rows runs. Shapes: crash (every row its own place,
 # local date + time of day in America/Chicago), camera (40 sites, RFC 3339
@@ -188,6 +213,7 @@ function verdict(ok) { return ok ? "**met**" : "**missed**" }
 	wall[key, $4] = $5; cpu[key, $4] = $6 + $7; rss[key, $4] = $8 / 1024; bytes[key] = $9
 }
 END {
+	if (nk == 0) exit
 	print "| format | shape | rows | run | wall s | CPU s | cores used | rows/s | MB/s | peak RSS MiB | wall / passthrough | CPU / passthrough | workers 2 vs 1 |"
 	print "|---|---|---|---|---|---|---|---|---|---|---|---|---|"
 	for (k = 1; k <= nk; k++) {
@@ -301,7 +327,7 @@ if [ "$micro" = 1 ]; then
 		read -r pkg pattern <<<"$b"
 		cmd=(go test -run '^$' -bench "$pattern" -benchtime "$benchtime" "$pkg")
 		echo "go test -run '^\$' -bench '$pattern' -benchtime $benchtime $pkg" | tee -a "$microout"
-		"${cmd[@]}" 2>&1 | grep -v '^\(goos\|goarch\|cpu\|pkg\): ' | tee -a "$microout"
+		(cd "$src" && "${cmd[@]}") 2>&1 | grep -v '^\(goos\|goarch\|cpu\|pkg\): ' | tee -a "$microout"
 	done
 fi
 # The solar kernel's targets, from BenchmarkCompare (one goroutine: per core).
@@ -334,7 +360,7 @@ if [ "$record" = 1 ]; then
 		echo
 		echo "## \`bash benchmarks/run.sh $mode\` ($started, issue 7)"
 		echo
-		echo "Commit $(git rev-parse --short HEAD)$(git diff --quiet HEAD -- . 2>/dev/null || echo ' (with uncommitted changes in the tree)'); $(go version | cut -d' ' -f3);"
+		echo "Built from $built_from; $(go version | cut -d' ' -f3);"
 		echo "machine: $machine; load average (1, 5, 15 min) before the end-to-end runs $load_before, after them"
 		echo "$load_after, at the end $load_end; the whole script took ${elapsed} s (data sets already generated: see"
 		echo "the generator commands below; generating them all takes a few minutes more). Each end-to-end command ran"
@@ -343,7 +369,7 @@ if [ "$record" = 1 ]; then
 		cat "$table"
 		cat "$microtargets"
 		echo
-		echo "Commands (in this order; \`bin/\` is built from the commit by the script):"
+		echo "Commands (in this order; \`bin/\` is built by the script, the micro-benchmarks run in the same source):"
 		echo
 		echo '```sh'
 		cat "$commands"
