@@ -10,6 +10,9 @@ import (
 	"strings"
 	"testing"
 
+	pq "github.com/apache/arrow-go/v18/parquet"
+	"github.com/apache/arrow-go/v18/parquet/compress"
+	"github.com/apache/arrow-go/v18/parquet/file"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 
@@ -120,6 +123,45 @@ func TestErrors(t *testing.T) {
 			var stderr bytes.Buffer
 			assert.Equal(t, c.code, run(c.args, io.Discard, &stderr))
 			assert.NotEmpty(t, stderr.String())
+		})
+	}
+}
+
+// TestParquetLayout checks the Parquet writer's settings in the file: row
+// groups of -rowgroup rows, zstd, float columns without a dictionary, and a
+// timestamp adjusted to UTC for camera rows only.
+func TestParquetLayout(t *testing.T) {
+	for _, shape := range []string{"crash", "camera"} {
+		t.Run(shape, func(t *testing.T) {
+			path := filepath.Join(t.TempDir(), shape+".parquet")
+			c := config{n: 2500, shape: shape, wide: true, seed: 1, format: "parquet",
+				parquet: parquetOptions{batch: 1000, rowGroup: 2048, compression: "zstd"}}
+			require.NoError(t, generateFile(path, nil, c))
+			pf, err := file.OpenParquetFile(path, false)
+			require.NoError(t, err)
+			defer pf.Close()
+			md := pf.MetaData()
+			require.Equal(t, 2, md.NumRowGroups())
+			assert.EqualValues(t, 2048, md.RowGroup(0).NumRows())
+			assert.EqualValues(t, 452, md.RowGroup(1).NumRows())
+			sc := md.Schema
+			floats := 0
+			for i := range sc.NumColumns() {
+				col := sc.Column(i)
+				cc, err := md.RowGroup(0).ColumnChunk(i)
+				require.NoError(t, err)
+				assert.Equal(t, compress.Codecs.Zstd, cc.Compression(), col.Name())
+				if col.PhysicalType() == pq.Types.Double {
+					floats++
+					assert.False(t, cc.HasDictionaryPage(), "%s has a dictionary", col.Name())
+				}
+				if col.Name() == "timestamp" {
+					ts, ok := col.LogicalType().(interface{ IsAdjustedToUTC() bool })
+					require.True(t, ok, "timestamp is %s", col.LogicalType())
+					assert.Equal(t, shape == "camera", ts.IsAdjustedToUTC())
+				}
+			}
+			assert.Equal(t, 2+6, floats, "lat, lon and the six wide decimal columns")
 		})
 	}
 }
