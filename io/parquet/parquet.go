@@ -18,7 +18,10 @@
 // "geo" included), keeps each column's compression codec unless told
 // otherwise, and appends the added columns: float64 values, dictionary-encoded
 // strings for categories, strings (null when empty) for text, and timestamps
-// in microseconds, UTC, for instants.
+// in microseconds, UTC, for instants. When every column is flat (no list,
+// struct, map or extension type), it encodes and compresses the columns of
+// each block of rows on several goroutines (WriterOptions.Workers), writing
+// the same bytes as on one.
 package parquet
 
 import (
