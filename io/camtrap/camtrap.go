@@ -19,10 +19,15 @@
 // resource in their order, and one new resource per enriched table with its
 // Table Schema.
 //
-// Resources may be CSV files or gzipped CSV files (detected by content), and a
-// resource's path may be a list of files (each with its own header line,
-// which must be the same in every file). Parquet resources are refused with
-// ErrUnsupported.
+// Resources may be CSV files or gzipped CSV files (detected by content), or
+// Parquet files (a path ending in ".parquet", or a resource whose format or
+// mediatype names Parquet), and a resource's path may be a list of files of
+// one format: CSV files each with its own header line, which must be the
+// same in every file; Parquet files that each have the fields read. A
+// Parquet file is decoded in batches of ParquetBatchRows rows, only the
+// fields the join reads, and each value becomes the text a CSV file would
+// hold (see cellText), so both forms are read by the same code. Parquet
+// files are copied into the output unchanged, like CSV files.
 package camtrap
 
 import (
@@ -44,7 +49,8 @@ var (
 	ErrNotPackage = errors.New("not a Camtrap DP package")
 	// ErrResource: a resource is missing, or its path or fields cannot be used.
 	ErrResource = errors.New("unusable resource")
-	// ErrUnsupported: a resource in a form this version does not read (Parquet, remote files).
+	// ErrUnsupported: a resource in a form this version does not read
+	// (remote files, gzipped Parquet, CSV and Parquet files in one resource).
 	ErrUnsupported = errors.New("not supported yet")
 	// ErrNoDeployment: an observation or media row names a deployment that
 	// is not in the deployments table (or names none).
@@ -260,7 +266,7 @@ func (p *Package) Size(name string) int64 {
 }
 
 // Resource returns the resource named name, checked to be readable: local
-// relative paths, CSV (gzipped or not).
+// relative paths, all CSV (gzipped or not) or all Parquet.
 func (p *Package) Resource(name string) (*Resource, error) {
 	r, ok := p.byName[name]
 	if !ok {
@@ -273,10 +279,9 @@ func (p *Package) Resource(name string) (*Resource, error) {
 		if err := checkPath(path); err != nil {
 			return nil, fmt.Errorf("resource %q: %w", name, err)
 		}
-		lower := strings.ToLower(path)
-		if strings.EqualFold(r.Format, "parquet") || strings.HasSuffix(lower, ".parquet") || strings.HasSuffix(lower, ".parquet.gz") {
-			return nil, fmt.Errorf("%w: resource %q is Parquet (%s); this version reads Camtrap DP tables in CSV or gzipped CSV", ErrUnsupported, name, path)
-		}
+	}
+	if err := r.checkFormats(); err != nil {
+		return nil, err
 	}
 	return r, nil
 }

@@ -62,7 +62,7 @@ func (p *Package) LoadDeployments(o Options) (*Deployments, error) {
 	if err != nil {
 		return nil, err
 	}
-	t, err := openTable(p, r)
+	t, err := openTable(p, r, o.allocator())
 	if err != nil {
 		return nil, err
 	}
@@ -71,9 +71,11 @@ func (p *Package) LoadDeployments(o Options) (*Deployments, error) {
 	if err != nil {
 		return nil, err
 	}
+	idx = t.project(append(idx, t.column("deploymentStart"), t.column("deploymentEnd"),
+		t.column("cameraHeading"), t.column("timestampIssues"), t.column("coordinateUncertainty")))
 	idCol, latCol, lonCol := idx[0], idx[1], idx[2]
-	startCol, endCol := t.column("deploymentStart"), t.column("deploymentEnd")
-	headCol, issuesCol, uncCol := t.column("cameraHeading"), t.column("timestampIssues"), t.column("coordinateUncertainty")
+	startCol, endCol := idx[3], idx[4]
+	headCol, issuesCol, uncCol := idx[5], idx[6], idx[7]
 	rz, err := o.resolver()
 	if err != nil {
 		return nil, err
@@ -91,14 +93,14 @@ func (p *Package) LoadDeployments(o Options) (*Deployments, error) {
 		}
 		row++
 		if len(rec) != len(t.header) {
-			return nil, fmt.Errorf("%w: resource %q: %s line %d has %d fields, the header has %d", ErrResource, TableDeployments, t.path, line, len(rec), len(t.header))
+			return nil, fmt.Errorf("%w: resource %q: %s has %d fields, the header has %d", ErrResource, TableDeployments, t.where(line), len(rec), len(t.header))
 		}
 		id := rec[idCol]
 		if id == "" {
-			return nil, fmt.Errorf("%w: resource %q: %s line %d: deploymentID is empty", ErrResource, TableDeployments, t.path, line)
+			return nil, fmt.Errorf("%w: resource %q: %s: deploymentID is empty", ErrResource, TableDeployments, t.where(line))
 		}
 		if _, dup := ds.byID[id]; dup {
-			return nil, fmt.Errorf("%w: resource %q: %s line %d: deploymentID %q appears twice", ErrResource, TableDeployments, t.path, line, id)
+			return nil, fmt.Errorf("%w: resource %q: %s: deploymentID %q appears twice", ErrResource, TableDeployments, t.where(line), id)
 		}
 		d := &Deployment{ID: id, Heading: math.NaN(), CoordinateUncertainty: math.NaN()}
 		ds.byID[id] = d
@@ -132,8 +134,8 @@ func (p *Package) LoadDeployments(o Options) (*Deployments, error) {
 			}
 			if *b.dst, _, _, err = rz.Resolve(st, "", d.Lat, d.Lon); err != nil {
 				if errors.Is(err, zone.ErrNoTimeZone) {
-					return nil, fmt.Errorf("%w: resource %q: %s line %d, %s %q has no UTC offset (Camtrap DP times carry one); give --tz ZONE or --tz auto to read such times: %w",
-						enrich.ErrUsage, TableDeployments, t.path, line, b.field, rec[b.col], err)
+					return nil, fmt.Errorf("%w: resource %q: %s, %s %q has no UTC offset (Camtrap DP times carry one); give --tz ZONE or --tz auto to read such times: %w",
+						enrich.ErrUsage, TableDeployments, t.where(line), b.field, rec[b.col], err)
 				}
 				bad(b.field, err)
 			}

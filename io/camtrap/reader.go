@@ -9,6 +9,8 @@ import (
 	"strings"
 	"time"
 
+	"github.com/apache/arrow-go/v18/arrow/memory"
+
 	"github.com/heliotag/heliotag/enrich"
 	"github.com/heliotag/heliotag/io/internal/num"
 	"github.com/heliotag/heliotag/io/internal/stamp"
@@ -52,6 +54,9 @@ type Options struct {
 	TZ string
 	// At chooses the instant of an observation.
 	At At
+	// Allocator holds the Arrow memory of Parquet resources while a batch
+	// is turned into rows; nil means memory.DefaultAllocator (Go's heap).
+	Allocator memory.Allocator
 }
 
 // Tables are the tables that can be enriched, in output order.
@@ -125,7 +130,7 @@ func (p *Package) NewReader(table string, deps *Deployments, o Options) (*Reader
 	if err != nil {
 		return nil, err
 	}
-	t, err := openTable(p, res)
+	t, err := openTable(p, res, o.allocator())
 	if err != nil {
 		return nil, err
 	}
@@ -157,6 +162,13 @@ func (p *Package) NewReader(table string, deps *Deployments, o Options) (*Reader
 		t.Close()
 		return nil, err
 	}
+	idx = t.project(idx)
+	if rd.start >= 0 {
+		rd.start = idx[2]
+	}
+	if rd.end >= 0 {
+		rd.end = idx[len(idx)-1]
+	}
 	rd.id, rd.dep = idx[0], idx[1]
 	rd.parser, _ = stamp.NewParser(stamp.Options{})
 	if rd.rz, err = o.resolver(); err != nil {
@@ -169,7 +181,10 @@ func (p *Package) NewReader(table string, deps *Deployments, o Options) (*Reader
 // Table is the name of the table read.
 func (rd *Reader) Table() string { return rd.table }
 
-// Columns returns the table's fields (the header).
+// Columns returns the table's fields as read: the whole header of a CSV
+// resource; of a Parquet resource, only the fields the join reads (the ID,
+// deploymentID and the time fields), in the file's order. Rows (and
+// rejects files) hold these fields.
 func (rd *Reader) Columns() []string { return rd.t.header }
 
 // Roles names the fields that feed the computation, for messages.
@@ -196,7 +211,7 @@ func (rd *Reader) Position() (done, total int64) { return rd.t.count.n.Load(), r
 func (rd *Reader) Close() error { return rd.t.Close() }
 
 // Next reads up to max rows. Rows are 1-based across the resource's files;
-// lines are given only for a single-file resource.
+// lines are given only for a single-file CSV resource.
 func (rd *Reader) Next(ctx context.Context, max int) (enrich.Chunk, error) {
 	if err := ctx.Err(); err != nil {
 		return nil, context.Cause(ctx)
@@ -210,7 +225,7 @@ func (rd *Reader) Next(ctx context.Context, max int) (enrich.Chunk, error) {
 		if err != nil {
 			return nil, err
 		}
-		if len(rd.t.paths) > 1 {
+		if len(rd.t.paths) > 1 || rd.t.parquet {
 			line = 0
 		}
 		c.recs = append(c.recs, rec)

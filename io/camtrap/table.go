@@ -13,10 +13,14 @@ import (
 	"slices"
 	"strings"
 	"sync/atomic"
+
+	"github.com/apache/arrow-go/v18/arrow/memory"
 )
 
-// table reads the records of a CSV resource, file after file: each file
-// starts with a header line, which must equal the first file's.
+// table reads the records of a resource, file after file. A CSV file starts
+// with a header line, which must equal the first file's. A Parquet file's
+// top-level fields are its header; after project, only the projected fields
+// are decoded, and each later file must have them.
 type table struct {
 	name   string
 	dir    string
@@ -32,6 +36,11 @@ type table struct {
 	count *counter
 
 	size int64 // bytes of every file (0 when some are gzipped: unknown)
+
+	parquet bool             // the files are Parquet
+	mem     memory.Allocator // Arrow memory of Parquet batches
+	pq      *pqFile          // the open Parquet file
+	keep    []string         // the projected fields (nil: all)
 }
 
 // counter counts bytes read; it is read from the writing goroutine (progress).
@@ -46,9 +55,14 @@ func (c counter) Read(p []byte) (int, error) {
 	return n, err
 }
 
-// openTable opens the resource's first file and reads its header.
-func openTable(p *Package, r *Resource) (*table, error) {
-	t := &table{name: r.Name, dir: p.Dir, delim: r.Delimiter, paths: r.Paths, count: &counter{n: new(atomic.Int64)}}
+// openTable opens the resource's first file and reads its header. mem holds
+// the Arrow memory of a Parquet resource.
+func openTable(p *Package, r *Resource, mem memory.Allocator) (*table, error) {
+	if err := r.checkFormats(); err != nil {
+		return nil, err
+	}
+	t := &table{name: r.Name, dir: p.Dir, delim: r.Delimiter, paths: r.Paths, count: &counter{n: new(atomic.Int64)},
+		parquet: len(r.Paths) > 0 && r.IsParquet(r.Paths[0]), mem: mem}
 	if t.delim == 0 {
 		t.delim = ','
 	}
@@ -72,6 +86,9 @@ func (t *table) open() error {
 	path := t.paths[t.next]
 	t.next++
 	t.path = path
+	if t.parquet {
+		return t.openParquet(path)
+	}
 	f, err := os.Open(filepath.Join(t.dir, filepath.FromSlash(path)))
 	if err != nil {
 		return fmt.Errorf("%w: resource %q: %w", ErrResource, t.name, err)
@@ -101,23 +118,65 @@ func (t *table) open() error {
 		return fmt.Errorf("%w: resource %q: %s: %w", ErrResource, t.name, path, err)
 	}
 	if t.header == nil {
-		t.header = h
-		seen := map[string]bool{}
-		for _, name := range h {
-			if seen[name] {
-				return fmt.Errorf("%w: resource %q: %s: the header has the field %q twice", ErrResource, t.name, path, name)
-			}
-			seen[name] = true
-		}
+		return t.setHeader(h, path)
 	} else if !slices.Equal(h, t.header) {
 		return fmt.Errorf("%w: resource %q: the header of %s differs from that of %s; every file of a resource needs the same fields in the same order", ErrResource, t.name, path, t.paths[0])
 	}
 	return nil
 }
 
-// read returns the next record and its 1-based line in its file, or io.EOF
-// after the last file.
+// setHeader sets the first file's fields, which must be distinct.
+func (t *table) setHeader(h []string, path string) error {
+	seen := map[string]bool{}
+	for _, name := range h {
+		if seen[name] {
+			return fmt.Errorf("%w: resource %q: %s: the header has the field %q twice", ErrResource, t.name, path, name)
+		}
+		seen[name] = true
+	}
+	t.header = h
+	return nil
+}
+
+// project limits a Parquet table to the fields at idx (indexes into the
+// header; -1 stays -1) and returns their indexes in the new header, which
+// keeps the fields in the file's order. Only those fields are decoded. A CSV
+// table reads whole lines: its header and idx are left as they are.
+func (t *table) project(idx []int) []int {
+	if !t.parquet {
+		return idx
+	}
+	var keep []string
+	for j, name := range t.header {
+		if slices.Contains(idx, j) {
+			keep = append(keep, name)
+		}
+	}
+	out := make([]int, len(idx))
+	for i, j := range idx {
+		out[i] = -1
+		if j >= 0 {
+			out[i] = slices.Index(keep, t.header[j])
+		}
+	}
+	t.header, t.keep = keep, keep
+	return out
+}
+
+// where names a record for messages: the file and its line (CSV) or row (Parquet).
+func (t *table) where(line int64) string {
+	if t.parquet {
+		return fmt.Sprintf("%s row %d", t.path, line)
+	}
+	return fmt.Sprintf("%s line %d", t.path, line)
+}
+
+// read returns the next record and its 1-based line in its file (for
+// Parquet, its 1-based row in its file), or io.EOF after the last file.
 func (t *table) read() (rec []string, line int64, err error) {
+	if t.parquet {
+		return t.readParquet()
+	}
 	for {
 		rec, err = t.r.Read()
 		if err == nil {
@@ -160,6 +219,10 @@ func (t *table) need(names ...string) ([]int, error) {
 }
 
 func (t *table) closeFile() {
+	if t.pq != nil {
+		t.pq.close()
+		t.pq = nil
+	}
 	if t.gz != nil {
 		t.gz.Close()
 		t.gz = nil
