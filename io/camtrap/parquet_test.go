@@ -55,8 +55,9 @@ const (
 
 // writeParquet writes header and rows as a Parquet file whose columns are
 // all nullable, typed by kinds (by field name; strings otherwise), an empty
-// text being a null. Row groups of 3 rows make several per file.
-func writeParquet(t *testing.T, path string, header []string, rows [][]string, kinds map[string]string) {
+// text being a null, in row groups of 3 rows (several per file) or of
+// rowGroup rows when given.
+func writeParquet(t *testing.T, path string, header []string, rows [][]string, kinds map[string]string, rowGroup ...int) {
 	t.Helper()
 	mem := memory.NewCheckedAllocator(memory.NewGoAllocator())
 	defer mem.AssertSize(t, 0)
@@ -117,7 +118,11 @@ func writeParquet(t *testing.T, path string, header []string, rows [][]string, k
 	defer rec.Release()
 	f, err := os.Create(path)
 	require.NoError(t, err)
-	w, err := pqarrow.NewFileWriter(sc, f, pq.NewWriterProperties(pq.WithMaxRowGroupLength(3), pq.WithAllocator(mem)),
+	groups := int64(3)
+	if len(rowGroup) > 0 {
+		groups = int64(rowGroup[0])
+	}
+	w, err := pqarrow.NewFileWriter(sc, f, pq.NewWriterProperties(pq.WithMaxRowGroupLength(groups), pq.WithAllocator(mem)),
 		pqarrow.NewArrowWriterProperties(pqarrow.WithStoreSchema(), pqarrow.WithAllocator(mem)))
 	require.NoError(t, err)
 	require.NoError(t, w.Write(rec))
@@ -495,4 +500,61 @@ func TestParquetErrors(t *testing.T) {
 	_, err = camtrap.Open(dir)
 	assert.ErrorIs(t, err, camtrap.ErrUnsupported)
 	assert.ErrorContains(t, err, "mixes Parquet (o1.parquet) and CSV (media.csv)")
+}
+
+// TestParquetBatches reads 20000 observations (three decoded batches of
+// camtrap.ParquetBatchRows at most, in row groups of 7000 rows) from Parquet
+// and from CSV in chunks of 1000, and checks every row's ID and instant, the
+// row count, and that progress reaches the files' size.
+func TestParquetBatches(t *testing.T) {
+	dir := t.TempDir()
+	const n = 20000
+	require.Greater(t, n, 2*camtrap.ParquetBatchRows)
+	require.NoError(t, os.MkdirAll(filepath.Join(dir, "extra"), 0o755))
+	writeCSV(t, filepath.Join(dir, "extra", "site-notes.csv"), []string{"note"}, nil)
+	writeCSV(t, filepath.Join(dir, "deployments.csv"), []string{"deploymentID", "latitude", "longitude"}, [][]string{{"d1", "10", "20"}})
+	writeCSV(t, filepath.Join(dir, "media.csv"), []string{"mediaID", "deploymentID", "timestamp"}, nil)
+	header := []string{"observationID", "deploymentID", "eventStart", "scientificName"}
+	rows := make([][]string, n)
+	base := time.Date(2024, 1, 2, 0, 0, 0, 0, time.UTC)
+	for i := range rows {
+		rows[i] = []string{"o" + strconv.Itoa(i), "d1", base.Add(time.Duration(i) * 97 * time.Second).Format(time.RFC3339), "Vulpes vulpes"}
+	}
+	writeParquet(t, filepath.Join(dir, "o.parquet"), header, rows, map[string]string{"eventStart": kindTimestamp}, 7000)
+	writeCSV(t, filepath.Join(dir, "o.csv"), header, rows)
+	mem := memory.NewCheckedAllocator(memory.NewGoAllocator())
+	defer mem.AssertSize(t, 0)
+	for _, obs := range []string{"o.parquet", "o.csv"} {
+		desc := pkgDescriptor(`"deployments.csv"`, `"media.csv"`, `"`+obs+`"`)
+		require.NoError(t, os.WriteFile(filepath.Join(dir, camtrap.DescriptorName), []byte(desc), 0o644))
+		p, err := camtrap.Open(dir)
+		require.NoError(t, err)
+		o := camtrap.Options{Allocator: mem}
+		ds, err := p.LoadDeployments(o)
+		require.NoError(t, err)
+		rd, err := p.NewReader(camtrap.TableObservations, ds, o)
+		require.NoError(t, err)
+		row := 0
+		for {
+			c, err := rd.Next(context.Background(), 1000)
+			if err == io.EOF {
+				break
+			}
+			require.NoError(t, err)
+			in := new(enrich.Inputs)
+			in.Reset(c.Len())
+			c.Extract(in)
+			for i := range c.Len() {
+				require.Equal(t, rows[row][0], c.Values(i)[0], obs)
+				require.NoError(t, in.Err[i])
+				require.Equal(t, base.Add(time.Duration(row)*97*time.Second), in.Time[i], "%s row %d", obs, row+1)
+				row++
+			}
+		}
+		assert.Equal(t, n, row, obs)
+		done, total := rd.Position()
+		assert.Equal(t, p.Size(camtrap.TableObservations), total, obs)
+		assert.Equal(t, total, done, "%s: progress at the end", obs)
+		require.NoError(t, rd.Close())
+	}
 }
