@@ -61,6 +61,7 @@ type columnSet struct {
 	cost     []time.Duration // per column: time spent on the last block
 	errs     []error         // per column: the last block's error
 	next     atomic.Int64    // the next position in order to claim
+	pending  bool            // the current row group's last pages are not cut
 	failed   error           // a write failed: the file is abandoned
 
 	// fail, set by tests, is called before each column of each block is
@@ -182,8 +183,10 @@ func newColumnSet(sc *arrow.Schema, w io.Writer, props *pq.WriterProperties, arr
 	return s, true, nil
 }
 
-// write writes one block of rows, in a new row group when newGroup is set.
-func (s *columnSet) write(rec arrow.RecordBatch, newGroup bool) error {
+// write writes one block of rows, in a new row group when newGroup is set,
+// and cuts the columns' last pages when last is set (the block ends the row
+// group).
+func (s *columnSet) write(rec arrow.RecordBatch, newGroup, last bool) error {
 	if s.failed != nil {
 		return s.failed
 	}
@@ -194,6 +197,7 @@ func (s *columnSet) write(rec arrow.RecordBatch, newGroup bool) error {
 			return err
 		}
 		s.rgw = rgw
+		s.pending = false
 		for i := range s.cws {
 			if s.cws[i], err = rgw.Column(i); err != nil {
 				s.failed = err
@@ -205,15 +209,39 @@ func (s *columnSet) write(rec arrow.RecordBatch, newGroup bool) error {
 		s.failed = fmt.Errorf("a block of %d columns for a schema of %d", rec.NumCols(), len(s.cws))
 		return s.failed
 	}
+	s.pending = !last
+	return s.each(func(slot *columnSlot, j int) error {
+		if err := s.writeColumn(slot, j, rec.Column(j)); err != nil || !last {
+			return err
+		}
+		return s.lastPage(j)
+	})
+}
+
+// finishGroup cuts the last page of each column of the current row group,
+// if write has not: the row group is complete.
+func (s *columnSet) finishGroup() error {
+	if s.failed != nil {
+		return s.failed
+	}
+	if !s.pending {
+		return nil
+	}
+	return s.each(func(_ *columnSlot, j int) error { return s.lastPage(j) })
+}
+
+// each calls do for every column, on len(s.slots) goroutines (the caller's
+// among them), and returns the first column's error.
+func (s *columnSet) each(do func(slot *columnSlot, j int) error) error {
 	// Longest columns first, each claimed by the first free goroutine: the
 	// block ends soon after its costliest column does.
 	slices.SortStableFunc(s.order, func(a, b int) int { return cmp.Compare(s.cost[b], s.cost[a]) })
 	s.next.Store(0)
 	var wg sync.WaitGroup
 	for k := 1; k < len(s.slots); k++ {
-		wg.Go(func() { s.run(k, rec) })
+		wg.Go(func() { s.run(&s.slots[k], do) })
 	}
-	s.run(0, rec)
+	s.run(&s.slots[0], do)
 	wg.Wait()
 	for _, err := range s.errs {
 		if err != nil {
@@ -224,8 +252,8 @@ func (s *columnSet) write(rec arrow.RecordBatch, newGroup bool) error {
 	return nil
 }
 
-// run writes the columns of rec that slot k claims, until none is left.
-func (s *columnSet) run(k int, rec arrow.RecordBatch) {
+// run calls do for the columns slot claims, until none is left.
+func (s *columnSet) run(slot *columnSlot, do func(slot *columnSlot, j int) error) {
 	for {
 		i := int(s.next.Add(1)) - 1
 		if i >= len(s.order) {
@@ -233,9 +261,33 @@ func (s *columnSet) run(k int, rec arrow.RecordBatch) {
 		}
 		j := s.order[i]
 		start := time.Now()
-		s.errs[j] = s.writeColumn(&s.slots[k], j, rec.Column(j))
+		s.errs[j] = do(slot, j)
 		s.cost[j] = time.Since(start)
 	}
+}
+
+// pageCutter is implemented by arrow-go's column chunk writers.
+type pageCutter interface{ FlushCurrentPage() error }
+
+// lastPage cuts, encodes and compresses column j's last data page of the
+// row group, as the column writer's Close would first do (Close then writes
+// the dictionary page, then the buffered data pages in order; cutting the
+// page earlier changes none of them): the costly part of closing a row
+// group is then done on several goroutines. Close cuts a last page only when
+// values are buffered; the page statistics count them (values and nulls,
+// reset when a page is cut, updated before the values are buffered), so
+// without statistics the page is left to Close.
+func (s *columnSet) lastPage(j int) (err error) {
+	defer recoverInto(&err)
+	cw := s.cws[j]
+	st := cw.PageStatistics()
+	if st == nil || st.NumValues()+st.NullCount() == 0 {
+		return nil
+	}
+	if pc, ok := cw.(pageCutter); ok {
+		return pc.FlushCurrentPage()
+	}
+	return nil
 }
 
 // writeColumn writes one column of a block as pqarrow's arrowColumnWriter
@@ -313,6 +365,10 @@ func (s *columnSet) close() (err error) {
 	if s.failed != nil {
 		s.abandon()
 		return nil
+	}
+	if err := s.finishGroup(); err != nil {
+		s.abandon()
+		return err
 	}
 	if err := s.fw.Close(); err != nil {
 		s.abandon()

@@ -171,6 +171,8 @@ func TestParallelWriterSameBytes(t *testing.T) {
 		{"none", enrich.PolicyKeep, 5000, WriterOptions{RowGroupRows: 6000, Compression: "gzip"}},
 		{"position,phase", enrich.PolicyKeep, 3000, WriterOptions{Compression: "lz4", dataPageSize: 8 << 10}},
 		{"", enrich.PolicyKeep, 4096, WriterOptions{Compression: "brotli", RowGroupRows: 2500}},
+		// Row groups closed early by their compressed size.
+		{"", enrich.PolicyKeep, 1500, WriterOptions{groupBytes: 20 << 10, dataPageSize: 2 << 10}},
 	}
 	for _, in := range inputs {
 		for k, r := range runs {

@@ -2,6 +2,7 @@ package parquet
 
 import (
 	"bufio"
+	"cmp"
 	"context"
 	"fmt"
 	"io"
@@ -54,6 +55,9 @@ type WriterOptions struct {
 	// dataPageSize is the target data page size in bytes, 0 meaning the
 	// library's (1 MiB); tests make it small to cut many pages.
 	dataPageSize int64
+	// groupBytes is the compressed size at which a row group is closed
+	// early, 0 meaning maxRowGroupBytes; tests make it small.
+	groupBytes int64
 }
 
 // ParseCompression checks a codec name (case-insensitive; "none" is
@@ -86,6 +90,7 @@ type Writer struct {
 	rows        int64 // rows written
 	groupRows   int64 // rows per row group
 	rowsInGroup int64 // rows in the current row group
+	groupBytes  int64 // compressed bytes that close a row group early
 	pend        []arrow.RecordBatch
 	pendRows    int64
 	closed      bool
@@ -174,7 +179,7 @@ func NewWriter(w io.Writer, rd *Reader, plan *enrich.Plan, o WriterOptions) (*Wr
 	}
 	bw := bufio.NewWriterSize(w, 1<<20)
 	props := pq.NewWriterProperties(opts...)
-	wr := &Writer{rd: rd, bw: bw, schema: out.schema, groupRows: int64(rows)}
+	wr := &Writer{rd: rd, bw: bw, schema: out.schema, groupRows: int64(rows), groupBytes: cmp.Or(o.groupBytes, maxRowGroupBytes)}
 	if workers > 1 {
 		cols, ok, err := newColumnSet(out.schema, hideClose{bw}, props, arrProps, true, workers)
 		if err != nil {
@@ -383,13 +388,19 @@ func (w *Writer) flushPending() error {
 // group when the current one is full (in rows, or in compressed bytes).
 func (w *Writer) writeBlock(rec arrow.RecordBatch) error {
 	if w.cols != nil {
-		if err := w.cols.write(rec, w.rowsInGroup == 0); err != nil {
+		full := w.rowsInGroup+rec.NumRows() == w.groupRows
+		if err := w.cols.write(rec, w.rowsInGroup == 0, full); err != nil {
 			return fmt.Errorf("writing output: %w", err)
 		}
 		w.rows += rec.NumRows()
 		w.rowsInGroup += rec.NumRows()
-		if w.rowsInGroup == w.groupRows || w.cols.rowGroupCompressedBytes() >= maxRowGroupBytes {
+		if full {
 			w.rowsInGroup = 0
+		} else if w.cols.rowGroupCompressedBytes() >= w.groupBytes {
+			w.rowsInGroup = 0
+			if err := w.cols.finishGroup(); err != nil {
+				return fmt.Errorf("writing output: %w", err)
+			}
 		}
 		return nil
 	}
@@ -403,7 +414,7 @@ func (w *Writer) writeBlock(rec arrow.RecordBatch) error {
 	}
 	w.rows += rec.NumRows()
 	w.rowsInGroup += rec.NumRows()
-	if w.rowsInGroup == w.groupRows || w.fw.RowGroupTotalCompressedBytes() >= maxRowGroupBytes {
+	if w.rowsInGroup == w.groupRows || w.fw.RowGroupTotalCompressedBytes() >= w.groupBytes {
 		w.rowsInGroup = 0
 	}
 	return nil
