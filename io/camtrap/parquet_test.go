@@ -5,6 +5,7 @@ import (
 	"compress/gzip"
 	"context"
 	"encoding/csv"
+	"fmt"
 	"io"
 	"math"
 	"os"
@@ -29,7 +30,7 @@ import (
 
 // csvRows reads a CSV file of the test package (gzipped or not): its header
 // and its records.
-func csvRows(t *testing.T, path string) ([]string, [][]string) {
+func csvRows(t testing.TB, path string) ([]string, [][]string) {
 	t.Helper()
 	b, err := os.ReadFile(path)
 	require.NoError(t, err)
@@ -57,7 +58,7 @@ const (
 // all nullable, typed by kinds (by field name; strings otherwise), an empty
 // text being a null, in row groups of 3 rows (several per file) or of
 // rowGroup rows when given.
-func writeParquet(t *testing.T, path string, header []string, rows [][]string, kinds map[string]string, rowGroup ...int) {
+func writeParquet(t testing.TB, path string, header []string, rows [][]string, kinds map[string]string, rowGroup ...int) {
 	t.Helper()
 	mem := memory.NewCheckedAllocator(memory.NewGoAllocator())
 	defer mem.AssertSize(t, 0)
@@ -130,7 +131,7 @@ func writeParquet(t *testing.T, path string, header []string, rows [][]string, k
 }
 
 // writeCSV writes header and rows as a CSV file.
-func writeCSV(t *testing.T, path string, header []string, rows [][]string) {
+func writeCSV(t testing.TB, path string, header []string, rows [][]string) {
 	t.Helper()
 	var buf bytes.Buffer
 	w := csv.NewWriter(&buf)
@@ -556,5 +557,63 @@ func TestParquetBatches(t *testing.T) {
 		assert.Equal(t, p.Size(camtrap.TableObservations), total, obs)
 		assert.Equal(t, total, done, "%s: progress at the end", obs)
 		require.NoError(t, rd.Close())
+	}
+}
+
+// BenchmarkReaderFormats reads and joins n observations (Next and Extract)
+// from the same rows as CSV and as Parquet (eventStart as timestamp[us, UTC],
+// row groups of 50000 rows), for the ratio of the two in one run.
+func BenchmarkReaderFormats(b *testing.B) {
+	const n = 100000
+	dir := b.TempDir()
+	require.NoError(b, os.MkdirAll(filepath.Join(dir, "extra"), 0o755))
+	writeCSV(b, filepath.Join(dir, "extra", "site-notes.csv"), []string{"note"}, nil)
+	writeCSV(b, filepath.Join(dir, "media.csv"), []string{"mediaID", "deploymentID", "timestamp"}, nil)
+	var deps [][]string
+	for d := range 50 {
+		deps = append(deps, []string{fmt.Sprintf("dep-%02d", d), strconv.FormatFloat(40+float64(d)/10, 'f', 4, 64), strconv.FormatFloat(-3+float64(d)/20, 'f', 4, 64)})
+	}
+	writeCSV(b, filepath.Join(dir, "deployments.csv"), []string{"deploymentID", "latitude", "longitude"}, deps)
+	header := []string{"observationID", "deploymentID", "mediaID", "eventID", "eventStart", "eventEnd", "observationLevel", "observationType", "scientificName", "count"}
+	rows := make([][]string, n)
+	base := time.Date(2024, 1, 2, 0, 0, 0, 0, time.UTC)
+	for i := range rows {
+		ts := base.Add(time.Duration(i) * 97 * time.Second).Format(time.RFC3339)
+		rows[i] = []string{fmt.Sprintf("obs-%07d", i), fmt.Sprintf("dep-%02d", i%50), "", fmt.Sprintf("ev-%07d", i), ts, ts, "event", "animal", "Vulpes vulpes", "1"}
+	}
+	kinds := map[string]string{"eventStart": kindTimestamp, "eventEnd": kindTimestamp, "count": kindInt}
+	writeParquet(b, filepath.Join(dir, "o.parquet"), header, rows, kinds, 50000)
+	writeCSV(b, filepath.Join(dir, "o.csv"), header, rows)
+	for _, obs := range []string{"o.csv", "o.parquet"} {
+		b.Run(fmt.Sprintf("format=%s/n=%d", strings.TrimPrefix(filepath.Ext(obs), "."), n), func(b *testing.B) {
+			desc := pkgDescriptor(`"deployments.csv"`, `"media.csv"`, `"`+obs+`"`)
+			require.NoError(b, os.WriteFile(filepath.Join(dir, camtrap.DescriptorName), []byte(desc), 0o644))
+			p, err := camtrap.Open(dir)
+			require.NoError(b, err)
+			ds, err := p.LoadDeployments(camtrap.Options{})
+			require.NoError(b, err)
+			in := new(enrich.Inputs)
+			b.ReportAllocs()
+			b.ResetTimer()
+			for range b.N {
+				rd, err := p.NewReader(camtrap.TableObservations, ds, camtrap.Options{})
+				if err != nil {
+					b.Fatal(err)
+				}
+				for {
+					c, err := rd.Next(context.Background(), enrich.DefaultBatchRows)
+					if err == io.EOF {
+						break
+					}
+					if err != nil {
+						b.Fatal(err)
+					}
+					in.Reset(c.Len())
+					c.Extract(in)
+				}
+				rd.Close()
+			}
+			b.ReportMetric(float64(n*b.N)/b.Elapsed().Seconds(), "rows/s")
+		})
 	}
 }
