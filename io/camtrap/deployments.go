@@ -38,13 +38,17 @@ type Deployment struct {
 // Deployments is the deployments table, keyed by deploymentID. It is
 // read-only once loaded and safe for concurrent use.
 type Deployments struct {
-	byID map[string]*Deployment
+	byID  map[string]*Deployment
+	order []*Deployment // in the table's order
 	// headings counts deployments with a cameraHeading.
 	headings int
 }
 
 // Len is the number of deployments.
 func (d *Deployments) Len() int { return len(d.byID) }
+
+// All returns the deployments in the table's order.
+func (d *Deployments) All() []*Deployment { return d.order }
 
 // Get returns the deployment with that ID, or nil.
 func (d *Deployments) Get(id string) *Deployment { return d.byID[id] }
@@ -104,6 +108,7 @@ func (p *Package) LoadDeployments(o Options) (*Deployments, error) {
 		}
 		d := &Deployment{ID: id, Heading: math.NaN(), CoordinateUncertainty: math.NaN()}
 		ds.byID[id] = d
+		ds.order = append(ds.order, d)
 		bad := func(field string, err error) {
 			if d.Err == nil {
 				d.Err = fmt.Errorf("%w %q (deployments row %d), %s: %w", ErrDeployment, id, row, field, err)

@@ -617,3 +617,35 @@ func BenchmarkReaderFormats(b *testing.B) {
 		})
 	}
 }
+
+// TestFiles describes the files of each resource: Parquet files with their
+// footer's row count, CSV files (gzipped or not) not counted, and the
+// deployments in the table's order.
+func TestFiles(t *testing.T) {
+	pqDir, _ := quarrendaleCopies(t, true)
+	p, err := camtrap.Open(pqDir)
+	require.NoError(t, err)
+	got := map[string][]camtrap.FileInfo{}
+	for _, r := range p.Resources() {
+		got[r.Name] = p.Files(r)
+	}
+	assert.Equal(t, map[string][]camtrap.FileInfo{
+		"deployments":  {{Path: "deployments.parquet", Format: "parquet", Rows: 4}},
+		"media":        {{Path: "media.parquet", Format: "parquet", Rows: 9}},
+		"observations": {{Path: "observations.pq", Format: "parquet", Rows: 9}},
+		"site-notes":   {{Path: "extra/site-notes.csv", Format: "csv", Rows: -1}},
+	}, got)
+
+	p, err = camtrap.Open(input)
+	require.NoError(t, err)
+	r, err := p.Resource(camtrap.TableMedia)
+	require.NoError(t, err)
+	assert.Equal(t, []camtrap.FileInfo{{Path: "media-part1.csv", Format: "csv", Rows: -1}, {Path: "media-part2.csv.gz", Format: "csv, gzipped", Rows: -1}}, p.Files(r))
+	ds, err := p.LoadDeployments(camtrap.Options{})
+	require.NoError(t, err)
+	var ids []string
+	for _, d := range ds.All() {
+		ids = append(ids, d.ID)
+	}
+	assert.Equal(t, []string{"dep-north", "dep-south", "dep-west", "dep-equator"}, ids)
+}
