@@ -31,10 +31,21 @@ type Inspection struct {
 	ZoneSource string
 	Samples    []Sample
 	Command    string
+	// Package describes a Camtrap DP package (nil for a file); Columns are
+	// then the observations' fields read and Samples its first rows.
+	Package *PackageInspection
 }
 
-// Inspect opens the input and reads up to n rows the way enrich would.
+// Inspect opens the input and reads up to n rows the way enrich would. A
+// Camtrap DP package (a datapackage.json or its folder) is described by
+// Inspection.Package, with its first observations as the samples.
 func Inspect(ctx context.Context, o Options, n int, stdin io.Reader) (*Inspection, error) {
+	if IsPackage(o.Input) {
+		return inspectPackage(ctx, o, n)
+	}
+	if err := checkNotFolder(o.Input); err != nil {
+		return nil, err
+	}
 	f, err := formats.Detect(o.Input, o.From)
 	if err != nil {
 		return nil, err

@@ -19,8 +19,14 @@ enrich would use and how they were chosen, how the first rows' times parse
 (the instant in UTC and in the row's zone), the time zone source, and the
 enrich command line that would run. It writes nothing.
 
-Example:
+For a Camtrap DP package (its folder or its datapackage.json) it shows the
+version, each resource's files with their format (and row count when the
+file says it: Parquet), the deployments' count and coordinate ranges, and
+how the first observations' eventStart times parse.
+
+Examples:
   heliotag inspect testdata/demo/marrowfield_collisions.csv --tz America/Chicago
+  heliotag inspect testdata/demo/hollin_ridge_package
 
 Flags:
 `
@@ -55,6 +61,10 @@ func runInspect(ctx context.Context, args []string, stdin io.Reader, stdout, std
 		return 2
 	}
 	w := stdout
+	if ins.Package != nil {
+		printPackage(w, ins)
+		return 0
+	}
 	fmt.Fprintf(w, "format:    %s\n", ins.Format)
 	fmt.Fprintf(w, "columns:   %d: %s\n", len(ins.Columns), strings.Join(ins.Columns, ", "))
 	fmt.Fprintln(w, "uses:")
