@@ -26,8 +26,13 @@
 // same in every file; Parquet files that each have the fields read. A
 // Parquet file is decoded in batches of ParquetBatchRows rows, only the
 // fields the join reads, and each value becomes the text a CSV file would
-// hold (see cellText), so both forms are read by the same code. Parquet
-// files are copied into the output unchanged, like CSV files.
+// hold, so both forms are read by the same code: strings as they are,
+// timestamps with a time zone as RFC 3339 instants (fraction of a second
+// kept; "Z" for UTC), timestamps without one as local date-times without an
+// offset (which need a zone, as such text does), dates and times of day in
+// ISO form, numbers in Go's shortest 'g' form, booleans as true or false,
+// nulls as empty. Parquet files are copied into the output unchanged, like
+// CSV files; a rejects file of a Parquet table holds the fields read.
 package camtrap
 
 import (

@@ -78,41 +78,36 @@ type pqFile struct {
 // openParquet opens the Parquet file t.paths[t.next-1] and reads its footer
 // and schema; the first file's fields become the table's header.
 func (t *table) openParquet(path string) (err error) {
+	// t.pq is set at once, so that Close closes what is open after an error
+	// or a panic in the library.
+	x := &pqFile{base: t.count.n.Load()}
+	t.pq = x
 	defer recoverParquet(&err, t.name, path)
-	f, err := os.Open(filepath.Join(t.dir, filepath.FromSlash(path)))
+	if x.f, err = os.Open(filepath.Join(t.dir, filepath.FromSlash(path))); err != nil {
+		return fmt.Errorf("%w: resource %q: %w", ErrResource, t.name, err)
+	}
+	st, err := x.f.Stat()
 	if err != nil {
 		return fmt.Errorf("%w: resource %q: %w", ErrResource, t.name, err)
 	}
-	st, err := f.Stat()
-	if err != nil {
-		f.Close()
-		return fmt.Errorf("%w: resource %q: %w", ErrResource, t.name, err)
-	}
+	x.size = st.Size()
 	props := pq.NewReaderProperties(t.mem)
 	props.BufferedStreamEnabled = true // read column chunks through a small buffer, not whole
 	props.BufferSize = 64 << 10
-	pf, err := file.NewParquetReader(f, file.WithReadProps(props))
-	if err != nil {
-		f.Close()
-		return fmt.Errorf("%w: resource %q: %s (%d bytes) is not a readable Parquet file: %w", ErrResource, t.name, path, st.Size(), err)
+	if x.pf, err = file.NewParquetReader(x.f, file.WithReadProps(props)); err != nil {
+		return fmt.Errorf("%w: resource %q: %s (%d bytes) is not a readable Parquet file: %w", ErrResource, t.name, path, x.size, err)
 	}
-	fr, err := pqarrow.NewFileReader(pf, pqarrow.ArrowReadProperties{BatchSize: ParquetBatchRows}, t.mem)
-	if err != nil {
-		pf.Close()
-		f.Close()
+	x.total = x.pf.NumRows()
+	if x.fr, err = pqarrow.NewFileReader(x.pf, pqarrow.ArrowReadProperties{BatchSize: ParquetBatchRows}, t.mem); err != nil {
 		return fmt.Errorf("%w: resource %q: %s: reading the schema: %w", ErrResource, t.name, path, err)
 	}
-	sc, err := fr.Schema()
+	sc, err := x.fr.Schema()
 	if err != nil {
-		pf.Close()
-		f.Close()
 		return fmt.Errorf("%w: resource %q: %s: reading the schema: %w", ErrResource, t.name, path, err)
 	}
-	x := &pqFile{f: f, pf: pf, fr: fr, total: pf.NumRows(), size: st.Size(), base: t.count.n.Load()}
 	for _, fd := range sc.Fields() {
 		x.names = append(x.names, fd.Name)
 	}
-	t.pq = x
 	if t.header == nil {
 		return t.setHeader(x.names, path)
 	}
@@ -160,6 +155,7 @@ func (t *table) readParquet() (rec []string, row int64, err error) {
 			if x.read != x.total {
 				return nil, 0, fmt.Errorf("%w: resource %q: %s: the footer declares %d rows but %d could be read", ErrResource, t.name, t.path, x.total, x.read)
 			}
+			t.count.n.Store(x.base + x.size)
 			if t.next >= len(t.paths) {
 				return nil, 0, io.EOF
 			}

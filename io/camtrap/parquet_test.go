@@ -496,6 +496,16 @@ func TestParquetErrors(t *testing.T) {
 	assert.ErrorIs(t, err, camtrap.ErrResource)
 	assert.ErrorContains(t, err, "not a readable Parquet file")
 
+	// A problem of the deployments table names the file's row.
+	writeParquet(t, filepath.Join(dir, "d.parquet"), []string{"deploymentID", "latitude", "longitude"},
+		[][]string{{"d1", "10", "20"}, {"d1", "11", "21"}}, map[string]string{"latitude": kindFloat, "longitude": kindFloat})
+	require.NoError(t, os.WriteFile(filepath.Join(dir, camtrap.DescriptorName), []byte(pkgDescriptor(`"d.parquet"`, `"media.csv"`, `"o1.parquet"`)), 0o644))
+	p, err = camtrap.Open(dir)
+	require.NoError(t, err)
+	_, err = p.LoadDeployments(camtrap.Options{})
+	assert.ErrorIs(t, err, camtrap.ErrResource)
+	assert.ErrorContains(t, err, `d.parquet row 2: deploymentID "d1" appears twice`)
+
 	desc := pkgDescriptor(`"deployments.csv"`, `"media.csv"`, `["o1.parquet", "media.csv"]`)
 	require.NoError(t, os.WriteFile(filepath.Join(dir, camtrap.DescriptorName), []byte(desc), 0o644))
 	_, err = camtrap.Open(dir)
