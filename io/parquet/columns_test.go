@@ -8,7 +8,10 @@ import (
 	"fmt"
 	"io"
 	"math/rand/v2"
+	"os"
+	"path/filepath"
 	"testing"
+	"time"
 
 	"github.com/apache/arrow-go/v18/arrow"
 	"github.com/apache/arrow-go/v18/arrow/array"
@@ -325,4 +328,83 @@ func BenchmarkParallelWriter(b *testing.B) {
 			benchWriter(b, "", WriterOptions{Workers: workers})
 		})
 	}
+}
+
+// BenchmarkWriterWorkers runs, in each iteration and on the same generated
+// file as BenchmarkEnrichVsPassthrough (output to io.Discard), interleaved so
+// that a shared machine's load falls on all of them alike:
+//
+//   - enrich (default columns), 2 workers, columns written serially;
+//   - enrich, 2 workers, columns written on 2 goroutines;
+//   - enrich, 1 worker (columns written serially, as always with 1);
+//   - passthrough (--add none), 2 workers, serial and on 2 goroutines.
+//
+// It reports the wall-time ratios: 1 worker over 2 (the speed-up of a second
+// worker) and enrich over passthrough, with the serial and the parallel
+// column writer, and serial over parallel for the 2-worker enrich.
+//
+//	go test ./io/parquet -run XXX -bench WriterWorkers -benchtime 3x -parquet.rows 5000000
+func BenchmarkWriterWorkers(b *testing.B) {
+	path := filepath.Join(b.TempDir(), "events.parquet")
+	writeBenchFile(b, path, *benchRows)
+	type cfg struct {
+		name                   string
+		add                    string
+		workers, writerWorkers int
+	}
+	cfgs := []cfg{
+		{"enrich-w2-serial", "", 2, 1},
+		{"enrich-w2-parallel", "", 2, 2},
+		{"enrich-w1", "", 1, 1},
+		{"passthrough-w2-serial", "none", 2, 1},
+		{"passthrough-w2-parallel", "none", 2, 2},
+	}
+	wall := make([]time.Duration, len(cfgs))
+	cpu := make([]time.Duration, len(cfgs))
+	run := func(k int) {
+		c := cfgs[k]
+		f, err := os.Open(path)
+		if err != nil {
+			b.Fatal(err)
+		}
+		defer f.Close()
+		rd, err := NewReader(f, Options{})
+		if err != nil {
+			b.Fatal(err)
+		}
+		defer rd.Close()
+		w0, c0 := time.Now(), cpuTime()
+		plan, err := enrich.NewPlan(enrich.PlanOptions{Add: c.add, Input: rd.Columns()})
+		if err != nil {
+			b.Fatal(err)
+		}
+		w, err := NewWriter(io.Discard, rd, plan, WriterOptions{Workers: c.writerWorkers})
+		if err != nil {
+			b.Fatal(err)
+		}
+		if _, err := enrich.Run(context.Background(), rd, w, enrich.Options{Plan: plan, Workers: c.workers}); err != nil {
+			b.Fatal(err)
+		}
+		if err := w.Close(); err != nil {
+			b.Fatal(err)
+		}
+		wall[k] += time.Since(w0)
+		cpu[k] += cpuTime() - c0
+	}
+	b.ResetTimer()
+	for range b.N {
+		for k := range cfgs {
+			run(k)
+		}
+	}
+	rows := float64(*benchRows * b.N)
+	for k, c := range cfgs {
+		b.ReportMetric(rows/wall[k].Seconds(), c.name+"-rows/s")
+		b.ReportMetric(cpu[k].Seconds()/float64(b.N), c.name+"-cpu-s")
+	}
+	b.ReportMetric(wall[2].Seconds()/wall[0].Seconds(), "w1/w2-serial")
+	b.ReportMetric(wall[2].Seconds()/wall[1].Seconds(), "w1/w2-parallel")
+	b.ReportMetric(wall[0].Seconds()/wall[3].Seconds(), "enrich/passthrough-serial")
+	b.ReportMetric(wall[1].Seconds()/wall[4].Seconds(), "enrich/passthrough-parallel")
+	b.ReportMetric(wall[0].Seconds()/wall[1].Seconds(), "serial/parallel-w2")
 }
