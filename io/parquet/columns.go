@@ -41,15 +41,17 @@ import (
 // block claim whole columns, and the next block starts after all of them are
 // done (a block is 4,096 rows, a few milliseconds of work). The row-group
 // writer, the file writer and the output are used by the calling goroutine
-// only, between blocks: closing a row group (the dictionary and last pages,
-// statistics, the copy to the output) is serial.
+// only, between blocks. Closing a row group (the dictionary pages, the
+// statistics, the copy of each column chunk to the output) is serial, after
+// the goroutines have cut each column's last data page (see lastPage).
 //
 // What the goroutines share is safe for concurrent use: the allocator
 // (arrow's Go and checked allocators are), the writer properties (read
 // only), and the codecs (arrow-go's snappy is stateless, its gzip, brotli and
 // lz4 encoders come from pools, and this package's zstd codec uses
 // zstd.Encoder.EncodeAll, which is safe for concurrent use). Page indexes and
-// bloom filters are not enabled; their builders would be per column anyway.
+// bloom filters are not enabled (arrow-go's default); their builders are
+// made per column anyway, before the goroutines start.
 type columnSet struct {
 	fw  *file.Writer
 	rgw file.BufferedRowGroupWriter
