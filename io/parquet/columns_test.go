@@ -147,7 +147,7 @@ func geoFile(t testing.TB, n int) []byte {
 // and page sizes and every codec. Inputs with nested columns stay on one
 // goroutine.
 func TestParallelWriterSameBytes(t *testing.T) {
-	flat := flatGenerated(t, 6000, 1)
+	flat := flatGenerated(t, 5000, 1)
 	type input struct {
 		name  string
 		in    []byte
@@ -157,7 +157,7 @@ func TestParallelWriterSameBytes(t *testing.T) {
 		{"flat", flat, false},
 		{"all flat types, stored schema", flatAllTypes(t, true), true},
 		{"all flat types, no stored schema", flatAllTypes(t, false), true},
-		{"int96", int96File(t, 3000), false},
+		{"int96", int96File(t, 2500), false},
 		{"geoparquet", geoFile(t, 3000), false},
 	}
 	type run struct {
@@ -168,7 +168,7 @@ func TestParallelWriterSameBytes(t *testing.T) {
 	}
 	runs := []run{
 		{"", enrich.PolicyKeep, 997, WriterOptions{}},
-		{"", enrich.PolicyKeep, 4103, WriterOptions{RowGroupRows: 5000, dataPageSize: 4 << 10}},
+		{"", enrich.PolicyKeep, 4103, WriterOptions{RowGroupRows: 3000, dataPageSize: 4 << 10}},
 		{"all", enrich.PolicySkip, 333, WriterOptions{RowGroupRows: 700, Compression: "snappy"}},
 		{"", enrich.PolicySkip, 1000, WriterOptions{RowGroupRows: 4096, Compression: "none", dataPageSize: 1 << 10}},
 		{"none", enrich.PolicyKeep, 5000, WriterOptions{RowGroupRows: 6000, Compression: "gzip"}},
