@@ -24,6 +24,9 @@ import (
 	"github.com/heliotag/heliotag/io/internal/zone"
 )
 
+// arrowSchemaKey is the file metadata key of the Arrow schema stored by Arrow writers.
+const arrowSchemaKey = "ARROW:schema"
+
 // ParquetBatchRows is the number of rows decoded at a time from a Parquet
 // resource file.
 const ParquetBatchRows = 8192
@@ -98,6 +101,16 @@ func (t *table) openParquet(path string) (err error) {
 		return fmt.Errorf("%w: resource %q: %s (%d bytes) is not a readable Parquet file: %w", ErrResource, t.name, path, x.size, err)
 	}
 	x.total = x.pf.NumRows()
+	// The Arrow schema a writer may store in the file's metadata is not
+	// read: arrow-go decodes it without bounds checks, and a damaged one can
+	// make it allocate without limit (found by FuzzParquetResource). The
+	// Arrow types then come from the Parquet schema alone; for the values
+	// read here this changes only the zone of an instant column (UTC).
+	for _, kv := range x.pf.MetaData().KeyValueMetadata() {
+		if kv.Key == arrowSchemaKey {
+			kv.Key = arrowSchemaKey + " (not read)"
+		}
+	}
 	if x.fr, err = pqarrow.NewFileReader(x.pf, pqarrow.ArrowReadProperties{BatchSize: ParquetBatchRows}, t.mem); err != nil {
 		return fmt.Errorf("%w: resource %q: %s: reading the schema: %w", ErrResource, t.name, path, err)
 	}
