@@ -180,7 +180,8 @@ func (t *table) readParquet() (rec []string, row int64, err error) {
 		if err := t.batchRows(x, x.rr.RecordBatch()); err != nil {
 			return nil, 0, err
 		}
-		t.count.n.Store(x.base + x.size*(x.read+int64(len(x.rows)))/max(x.total, 1))
+		// Progress: the file's bytes in proportion to the rows decoded.
+		t.count.n.Store(x.base + int64(float64(x.size)*float64(x.read+int64(len(x.rows)))/float64(max(x.total, 1))))
 	}
 }
 
