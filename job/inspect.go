@@ -46,6 +46,9 @@ func Inspect(ctx context.Context, o Options, n int, stdin io.Reader) (*Inspectio
 	if err := checkNotFolder(o.Input); err != nil {
 		return nil, err
 	}
+	if o.At != "" {
+		return nil, fmt.Errorf("%w: --at applies to Camtrap DP packages (a datapackage.json or its folder)", enrich.ErrUsage)
+	}
 	f, err := formats.Detect(o.Input, o.From)
 	if err != nil {
 		return nil, err

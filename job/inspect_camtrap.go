@@ -21,7 +21,8 @@ type PackageInspection struct {
 	// Deployments summarises the deployments table.
 	Deployments DeploymentsInspection
 	// SampleTable is the table whose first rows are in Inspection.Samples
-	// (observations); SampleFields name the values of each sample.
+	// (observations, at Options.At); SampleFields name the values of each
+	// sample.
 	SampleTable  string
 	SampleFields []string
 }
@@ -40,7 +41,7 @@ type DeploymentsInspection struct {
 }
 
 // inspectPackage reads a package's descriptor and deployments and parses the
-// first n observations at eventStart, the way enrich would.
+// first n observations at o.At (eventStart by default), the way enrich would.
 func inspectPackage(ctx context.Context, o Options, n int) (*Inspection, error) {
 	pkg, err := camtrap.Open(o.Input)
 	if err != nil {
@@ -50,13 +51,17 @@ func inspectPackage(ctx context.Context, o Options, n int) (*Inspection, error) 
 	if err := checkPackageFlags(o); err != nil {
 		return nil, err
 	}
+	at, err := camtrap.ParseAt(o.At)
+	if err != nil {
+		return nil, err
+	}
 	ins := &Inspection{Format: CamtrapDP, ZoneSource: packageZoneSource(o.Select.TZ)}
 	pi := &PackageInspection{Version: pkg.Version, Descriptor: pkg.Descriptor, SampleTable: camtrap.TableObservations}
 	ins.Package = pi
 	for _, r := range pkg.Resources() {
 		pi.Resources = append(pi.Resources, ResourceInspection{Name: r.Name, Files: pkg.Files(r)})
 	}
-	copts := camtrap.Options{TZ: o.Select.TZ}
+	copts := camtrap.Options{TZ: o.Select.TZ, At: at}
 	deps, err := pkg.LoadDeployments(copts)
 	if err != nil {
 		return nil, err
@@ -88,7 +93,15 @@ func inspectPackage(ctx context.Context, o Options, n int) (*Inspection, error) 
 	}
 	defer rd.Close()
 	ins.Columns = rd.Columns()
-	pi.SampleFields = []string{camtrap.IDField(camtrap.TableObservations), "deploymentID", "eventStart"}
+	pi.SampleFields = []string{camtrap.IDField(camtrap.TableObservations), "deploymentID"}
+	switch at {
+	case camtrap.AtStart:
+		pi.SampleFields = append(pi.SampleFields, "eventStart")
+	case camtrap.AtMiddle:
+		pi.SampleFields = append(pi.SampleFields, "eventStart", "eventEnd")
+	case camtrap.AtEnd:
+		pi.SampleFields = append(pi.SampleFields, "eventEnd")
+	}
 	chunk, err := rd.Next(ctx, n)
 	if err != nil && !errors.Is(err, io.EOF) {
 		return nil, err
@@ -123,6 +136,9 @@ func inspectPackage(ctx context.Context, o Options, n int) (*Inspection, error) 
 	args := []string{"heliotag", "enrich", shellQuote(o.Input)}
 	if o.Select.TZ != "" {
 		args = append(args, "--tz", shellQuote(o.Select.TZ))
+	}
+	if at != camtrap.AtStart {
+		args = append(args, "--at", at.String())
 	}
 	ins.Command = strings.Join(append(args, "-o", shellQuote(o.Output)), " ")
 	return ins, nil

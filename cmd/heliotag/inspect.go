@@ -22,7 +22,8 @@ enrich command line that would run. It writes nothing.
 For a Camtrap DP package (its folder or its datapackage.json) it shows the
 version, each resource's files with their format (and row count when the
 file says it: Parquet), the deployments' count and coordinate ranges, and
-how the first observations' eventStart times parse.
+how the first observations' times parse (eventStart; --at middle or end
+for the middle or end of the event, as enrich --at).
 
 Examples:
   heliotag inspect testdata/demo/marrowfield_collisions.csv --tz America/Chicago
@@ -38,6 +39,7 @@ func runInspect(ctx context.Context, args []string, stdin io.Reader, stdout, std
 	fs.StringVar(&o.From, "from", "", "input `FORMAT`: csv|tsv|geojson|geojsonseq|parquet (default: from the extension)")
 	addSelectFlags(fs, &o.Select, &o.Delimiter)
 	rows := fs.Int("rows", 5, "number of sample `ROWS` to parse")
+	fs.StringVar(&o.At, "at", "", "Camtrap DP package: the observations' `INSTANT` shown, start|middle|end of the event (default start)")
 	fs.Usage = func() {
 		fmt.Fprint(fs.Output(), inspectHelp)
 		fs.PrintDefaults()
