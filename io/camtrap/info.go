@@ -6,8 +6,7 @@ import (
 	"path/filepath"
 	"strings"
 
-	pq "github.com/apache/arrow-go/v18/parquet"
-	"github.com/apache/arrow-go/v18/parquet/file"
+	"github.com/heliotag/heliotag/io/parquet"
 )
 
 // FileInfo describes one file of a resource, for inspect.
@@ -57,23 +56,17 @@ func (p *Package) Files(r *Resource) []FileInfo {
 }
 
 // parquetRows is the row count in a Parquet file's footer, or -1.
-func parquetRows(path string) (n int64) {
-	defer func() {
-		if recover() != nil {
-			n = -1
-		}
-	}()
+func parquetRows(path string) int64 {
 	f, err := os.Open(path)
 	if err != nil {
 		return -1
 	}
 	defer f.Close()
-	pf, err := file.NewParquetReader(f, file.WithReadProps(pq.NewReaderProperties(nil)))
+	n, err := parquet.FooterRows(f)
 	if err != nil {
 		return -1
 	}
-	defer pf.Close()
-	return pf.NumRows()
+	return n
 }
 
 // gzipped reports whether the file starts with the gzip magic bytes.

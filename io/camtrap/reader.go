@@ -9,7 +9,7 @@ import (
 	"strings"
 	"time"
 
-	"github.com/apache/arrow-go/v18/arrow/memory"
+	"github.com/heliotag/heliotag/io/parquet"
 
 	"github.com/heliotag/heliotag/enrich"
 	"github.com/heliotag/heliotag/io/internal/num"
@@ -55,8 +55,8 @@ type Options struct {
 	// At chooses the instant of an observation.
 	At At
 	// Allocator holds the Arrow memory of Parquet resources while a batch
-	// is turned into rows; nil means memory.DefaultAllocator (Go's heap).
-	Allocator memory.Allocator
+	// is turned into rows; nil means Go's heap.
+	Allocator parquet.Allocator
 }
 
 // Tables are the tables that can be enriched, in output order.

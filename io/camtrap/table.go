@@ -14,7 +14,7 @@ import (
 	"strings"
 	"sync/atomic"
 
-	"github.com/apache/arrow-go/v18/arrow/memory"
+	"github.com/heliotag/heliotag/io/parquet"
 )
 
 // table reads the records of a resource, file after file. A CSV file starts
@@ -37,10 +37,10 @@ type table struct {
 
 	size int64 // bytes of every file (0 when some are gzipped: unknown)
 
-	parquet bool             // the files are Parquet
-	mem     memory.Allocator // Arrow memory of Parquet batches
-	pq      *pqFile          // the open Parquet file
-	keep    []string         // the projected fields (nil: all)
+	parquet bool              // the files are Parquet
+	mem     parquet.Allocator // Arrow memory of Parquet batches
+	pq      *pqFile           // the open Parquet file
+	keep    []string          // the projected fields (nil: all)
 }
 
 // counter counts bytes read; it is read from the writing goroutine (progress).
@@ -57,7 +57,7 @@ func (c counter) Read(p []byte) (int, error) {
 
 // openTable opens the resource's first file and reads its header. mem holds
 // the Arrow memory of a Parquet resource.
-func openTable(p *Package, r *Resource, mem memory.Allocator) (*table, error) {
+func openTable(p *Package, r *Resource, mem parquet.Allocator) (*table, error) {
 	if err := r.checkFormats(); err != nil {
 		return nil, err
 	}
