@@ -24,11 +24,14 @@
 // mediatype names Parquet), and a resource's path may be a list of files of
 // one format: CSV files each with its own header line, which must be the
 // same in every file; Parquet files that each have the fields read. A
-// Parquet file is decoded in batches of ParquetBatchRows rows, only the
-// fields the join reads, and each value becomes the text a CSV file would
-// hold, so both forms are read by the same code: strings as they are,
-// timestamps with a time zone as RFC 3339 instants (fraction of a second
-// kept; "Z" for UTC), timestamps without one as local date-times without an
+// Parquet file is read through io/parquet's TextReader, in batches of
+// ParquetBatchRows rows, only the fields the join reads, and each value
+// becomes the text a CSV file would hold, so both forms are read by the same
+// code: strings as they are, timestamps with a time zone as RFC 3339
+// instants (fraction of a second kept) at the offset of the column's zone
+// ("Z" for UTC; the zone's name comes from the Arrow schema an Arrow writer
+// stores in the file, which is checked first: a file whose stored schema is
+// damaged is refused), timestamps without one as local date-times without an
 // offset (which need a zone, as such text does), dates and times of day in
 // ISO form, numbers in Go's shortest 'g' form, booleans as true or false,
 // nulls as empty. Parquet files are copied into the output unchanged, like

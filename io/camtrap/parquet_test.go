@@ -47,8 +47,9 @@ func csvRows(t testing.TB, path string) ([]string, [][]string) {
 
 // Column kinds of a generated Parquet file; text is the default.
 const (
-	kindTimestamp = "timestamp[us, UTC]" // RFC 3339 text parsed into an instant
-	kindWall      = "timestamp[us]"      // ISO local date-time text, no zone
+	kindTimestamp = "timestamp[us, UTC]"              // RFC 3339 text parsed into an instant
+	kindWall      = "timestamp[us]"                   // ISO local date-time text, no zone
+	kindAuckland  = "timestamp[us, Pacific/Auckland]" // RFC 3339 text parsed into an instant
 	kindFloat     = "float64"
 	kindInt       = "int32"
 	kindBool      = "bool"
@@ -70,6 +71,8 @@ func writeParquet(t testing.TB, path string, header []string, rows [][]string, k
 			ty = &arrow.TimestampType{Unit: arrow.Microsecond, TimeZone: "UTC"}
 		case kindWall:
 			ty = &arrow.TimestampType{Unit: arrow.Microsecond}
+		case kindAuckland:
+			ty = &arrow.TimestampType{Unit: arrow.Microsecond, TimeZone: "Pacific/Auckland"}
 		case kindFloat:
 			ty = arrow.PrimitiveTypes.Float64
 		case kindInt:
@@ -454,6 +457,65 @@ func TestParquetTimes(t *testing.T) {
 	require.NoError(t, in.Err[0])
 	// Africa/Lagos is UTC+1 all year (common practice: West Africa Time has no daylight saving).
 	assert.Equal(t, time.Date(2024, 1, 10, 11, 10, 0, 0, time.UTC), in.Time[0].UTC())
+}
+
+// TestParquetStoredSchema: the Arrow schema stored in a file gives an
+// instant column's zone (its values read at that zone's offset), and a file
+// whose stored schema is damaged is refused before it is decoded.
+func TestParquetStoredSchema(t *testing.T) {
+	dir := t.TempDir()
+	require.NoError(t, os.MkdirAll(filepath.Join(dir, "extra"), 0o755))
+	writeCSV(t, filepath.Join(dir, "extra", "site-notes.csv"), []string{"note"}, nil)
+	writeCSV(t, filepath.Join(dir, "deployments.csv"), []string{"deploymentID", "latitude", "longitude"}, [][]string{{"d1", "10", "20"}})
+	writeCSV(t, filepath.Join(dir, "media.csv"), []string{"mediaID", "deploymentID", "timestamp"}, nil)
+	header := []string{"observationID", "deploymentID", "eventStart"}
+	writeParquet(t, filepath.Join(dir, "zoned.parquet"), header, [][]string{{"o1", "d1", "2024-06-12T20:47:05Z"}},
+		map[string]string{"eventStart": kindAuckland})
+
+	// A file whose "ARROW:schema" entry is not an Arrow schema message.
+	md := arrow.NewMetadata([]string{"ARROW:schema"}, []string{"/////wAAAAA="})
+	sc := arrow.NewSchema([]arrow.Field{{Name: "observationID", Type: arrow.BinaryTypes.String}}, &md)
+	f, err := os.Create(filepath.Join(dir, "damaged.parquet"))
+	require.NoError(t, err)
+	w, err := pqarrow.NewFileWriter(sc, f, pq.NewWriterProperties(), pqarrow.NewArrowWriterProperties())
+	require.NoError(t, err)
+	require.NoError(t, w.Close())
+
+	open := func(obs string) *camtrap.Package {
+		desc := pkgDescriptor(`"deployments.csv"`, `"media.csv"`, `"`+obs+`"`)
+		require.NoError(t, os.WriteFile(filepath.Join(dir, camtrap.DescriptorName), []byte(desc), 0o644))
+		p, err := camtrap.Open(dir)
+		require.NoError(t, err)
+		return p
+	}
+	mem := memory.NewCheckedAllocator(memory.NewGoAllocator())
+	defer mem.AssertSize(t, 0)
+	o := camtrap.Options{Allocator: mem}
+	p := open("zoned.parquet")
+	ds, err := p.LoadDeployments(o)
+	require.NoError(t, err)
+	rd, err := p.NewReader(camtrap.TableObservations, ds, o)
+	require.NoError(t, err)
+	c, err := rd.Next(context.Background(), 10)
+	require.NoError(t, err)
+	in := new(enrich.Inputs)
+	in.Reset(c.Len())
+	c.Extract(in)
+	// Pacific/Auckland is UTC+12 in June (common practice: New Zealand Standard Time; daylight saving is September to April).
+	assert.Equal(t, "2024-06-13T08:47:05+12:00", c.Values(0)[2])
+	require.NoError(t, in.Err[0])
+	assert.True(t, in.Time[0].Equal(time.Date(2024, 6, 12, 20, 47, 5, 0, time.UTC)), "%v", in.Time[0])
+	require.NotNil(t, in.Zone[0], "the local date at the value's offset, as the same text in a CSV file gives")
+	_, off := in.Time[0].In(in.Zone[0]).Zone()
+	assert.Equal(t, 12*3600, off)
+	require.NoError(t, rd.Close())
+
+	p = open("damaged.parquet")
+	_, err = p.NewReader(camtrap.TableObservations, ds, o)
+	assert.ErrorIs(t, err, camtrap.ErrResource)
+	assert.ErrorContains(t, err, "damaged.parquet (")
+	assert.ErrorContains(t, err, "is not a readable Parquet file")
+	assert.ErrorContains(t, err, "damaged stored Arrow schema")
 }
 
 // TestParquetErrors: a missing field, a later file without a field read, a
