@@ -47,11 +47,11 @@ type TextReader struct {
 	pf    *file.Reader
 	fr    *pqarrow.FileReader
 	rr    pqarrow.RecordReader
-	names []string // the file's top-level fields
-	sel   []string // the fields read, in this order
-	total int64    // rows the footer declares
-	read  int64    // rows decoded
-	batch [][]string
+	names []string   // the file's top-level fields
+	sel   []string   // the fields read, in this order
+	total int64      // rows the footer declares
+	read  int64      // rows decoded
+	batch [][]string // the current batch's rows; the slice is reused
 	err   error
 	done  bool
 }
@@ -126,7 +126,7 @@ func (t *TextReader) Select(fields ...string) error {
 // Next decodes the next batch of rows. It returns false at the end of the
 // file or on an error (see Err).
 func (t *TextReader) Next() (ok bool) {
-	t.batch = nil
+	t.batch = t.batch[:0]
 	if t.err != nil || t.done {
 		return false
 	}
@@ -169,7 +169,8 @@ func (t *TextReader) Next() (ok bool) {
 		t.done = true
 		return false
 	}
-	if t.batch, t.err = t.textRows(t.rr.RecordBatch()); t.err != nil {
+	if t.err = t.textRows(t.rr.RecordBatch()); t.err != nil {
+		t.batch = t.batch[:0]
 		return false
 	}
 	t.read += int64(len(t.batch))
@@ -177,8 +178,9 @@ func (t *TextReader) Next() (ok bool) {
 }
 
 // Batch returns the rows of the batch decoded by the last Next, each with
-// the selected fields in order. The rows own their strings (nothing refers
-// to Arrow memory) and are the caller's. Values become text as follows:
+// the selected fields in order. The returned slice is reused by the next
+// Next; the rows it holds own their strings (nothing refers to Arrow memory)
+// and are the caller's to keep. Values become text as follows:
 //   - null: "" (empty);
 //   - strings as they are; binary as its bytes when they are UTF-8, else
 //     lowercase hex;
@@ -213,8 +215,8 @@ func (t *TextReader) Close() error {
 	return pf.Close()
 }
 
-// textRows renders the selected fields of rec as text rows.
-func (t *TextReader) textRows(rec arrow.RecordBatch) ([][]string, error) {
+// textRows renders the selected fields of rec as text rows into t.batch.
+func (t *TextReader) textRows(rec arrow.RecordBatch) error {
 	n, w := int(rec.NumRows()), len(t.sel)
 	cols := make([]arrow.Array, w)
 	zones := make([]*time.Location, w)
@@ -222,13 +224,13 @@ func (t *TextReader) textRows(rec arrow.RecordBatch) ([][]string, error) {
 	for j, name := range t.sel {
 		k := sc.FieldIndices(name)
 		if len(k) != 1 {
-			return nil, fmt.Errorf("%w: field %q not decoded", ErrFile, name)
+			return fmt.Errorf("%w: field %q not decoded", ErrFile, name)
 		}
 		cols[j] = rec.Column(k[0])
 		if tt, ok := storageType(cols[j].DataType()).(*arrow.TimestampType); ok && tt.TimeZone != "" {
 			loc, err := columnZone(tt.TimeZone)
 			if err != nil {
-				return nil, fmt.Errorf("%w: field %q is %s: %w", ErrFile, name, tt, err)
+				return fmt.Errorf("%w: field %q is %s: %w", ErrFile, name, tt, err)
 			}
 			zones[j] = loc
 		}
@@ -239,11 +241,14 @@ func (t *TextReader) textRows(rec arrow.RecordBatch) ([][]string, error) {
 			flat[i*w+j] = cellText(a, i, zones[j])
 		}
 	}
-	rows := make([][]string, n)
-	for i := range n {
-		rows[i] = flat[i*w : (i+1)*w : (i+1)*w]
+	if cap(t.batch) < n {
+		t.batch = make([][]string, n)
 	}
-	return rows, nil
+	t.batch = t.batch[:n]
+	for i := range n {
+		t.batch[i] = flat[i*w : (i+1)*w : (i+1)*w]
+	}
+	return nil
 }
 
 // appendLeaves appends the Parquet leaf column indexes of a field.
