@@ -2,11 +2,9 @@ package job
 
 import (
 	"context"
-	"encoding/json"
 	"fmt"
 	"os"
 	"path/filepath"
-	"runtime"
 	"strings"
 
 	"github.com/heliotag/heliotag/enrich"
@@ -390,40 +388,6 @@ func writePackageReport(o Options, at fmt.Stringer, res Result) error {
 		}
 		rep.Tables = append(rep.Tables, tr)
 	}
-	add := o.Add
-	if add == "" {
-		add = enrich.DefaultGroups
-	}
-	workers, batch := o.Workers, o.BatchRows
-	if workers <= 0 {
-		workers = runtime.NumCPU()
-	}
-	if batch <= 0 {
-		batch = enrich.DefaultBatchRows
-	}
-	pressure, temp := o.Solar.Pressure, 10.0
-	if pressure == 0 {
-		pressure = 1010
-	}
-	if o.Solar.Temperature != nil {
-		temp = *o.Solar.Temperature
-	}
-	rep.Options = ReportOptions{
-		Add: add, Prefix: o.Prefix, OnBadRow: o.Policy.String(), Rejects: res.Rejects,
-		Workers: workers, BatchRows: batch, Select: o.Select,
-		Pressure: pressure, Temp: temp, Refraction: !o.Solar.NoRefraction,
-	}
-	b, err := json.MarshalIndent(rep, "", "  ")
-	if err != nil {
-		return err
-	}
-	f, err := outfile.Create(o.Report)
-	if err != nil {
-		return err
-	}
-	if _, err := f.Write(append(b, '\n')); err != nil {
-		f.Abort()
-		return fmt.Errorf("writing report: %w", err)
-	}
-	return f.Commit()
+	rep.Options = reportOptions(o, res.Rejects)
+	return writeJSON(o.Report, rep)
 }

@@ -282,6 +282,13 @@ func writeReport(o Options, res Result) error {
 	if sec := s.Elapsed.Seconds(); sec > 0 {
 		rep.RowsPerSec = float64(s.Read) / sec
 	}
+	rep.Options = reportOptions(o, res.Rejects)
+	return writeJSON(o.Report, rep)
+}
+
+// reportOptions are the run's settings as the report states them, defaults
+// filled in.
+func reportOptions(o Options, rejects string) ReportOptions {
 	add := o.Add
 	if add == "" {
 		add = enrich.DefaultGroups
@@ -300,16 +307,20 @@ func writeReport(o Options, res Result) error {
 	if o.Solar.Temperature != nil {
 		temp = *o.Solar.Temperature
 	}
-	rep.Options = ReportOptions{
-		Add: add, Prefix: o.Prefix, OnBadRow: o.Policy.String(), Rejects: res.Rejects,
+	return ReportOptions{
+		Add: add, Prefix: o.Prefix, OnBadRow: o.Policy.String(), Rejects: rejects,
 		Workers: workers, BatchRows: batch, Select: o.Select,
 		Pressure: pressure, Temp: temp, Refraction: !o.Solar.NoRefraction,
 	}
-	b, err := json.MarshalIndent(rep, "", "  ")
+}
+
+// writeJSON writes v, indented, to path atomically.
+func writeJSON(path string, v any) error {
+	b, err := json.MarshalIndent(v, "", "  ")
 	if err != nil {
 		return err
 	}
-	f, err := outfile.Create(o.Report)
+	f, err := outfile.Create(path)
 	if err != nil {
 		return err
 	}
