@@ -62,39 +62,54 @@ func Inspect(ctx context.Context, o Options, n int, stdin io.Reader) (*Inspectio
 	if c, ok := in.Source.(enrich.Chooser); ok {
 		ins.Choices = c.Choices()
 	}
-	chunk, err := in.Source.Next(ctx, n)
-	if err != nil && !errors.Is(err, io.EOF) {
-		return nil, err
-	}
-	if chunk != nil {
-		var inputs enrich.Inputs
-		inputs.Reset(chunk.Len())
-		chunk.Extract(&inputs)
-		for i := range chunk.Len() {
-			s := Sample{Row: int64(i + 1), Err: inputs.Err[i], Note: inputs.Note[i]}
-			var re *enrich.RowError
-			if errors.As(s.Err, &re) {
-				re.Row, re.Line = s.Row, chunk.Line(i)
+	ins.Samples, err = readSamples(ctx, in.Source, n, func(vals []string) (v []string) {
+		for _, c := range ins.Choices {
+			if c.Index < len(vals) {
+				v = append(v, vals[c.Index])
 			}
-			vals := chunk.Values(i)
-			for _, c := range ins.Choices {
-				if c.Index < len(vals) {
-					s.Value = append(s.Value, vals[c.Index])
-				}
-			}
-			if s.Err == nil {
-				s.UTC = inputs.Time[i].UTC()
-				if z := inputs.Zone[i]; z != nil {
-					s.Local, s.Zone = inputs.Time[i].In(z), z.String()
-				} else {
-					s.Zone = "mean solar time (the time carries no zone)"
-				}
-			}
-			ins.Samples = append(ins.Samples, s)
 		}
+		return v
+	}, "mean solar time (the time carries no zone)")
+	if err != nil {
+		return nil, err
 	}
 	ins.Command = command(o, ins.Choices)
 	return ins, nil
+}
+
+// readSamples reads up to n rows of src and says how each row's time reads:
+// the instant in UTC and in the row's zone (noZone names the date's basis
+// when the row has none); pick chooses the row's values shown beside it.
+func readSamples(ctx context.Context, src enrich.Source, n int, pick func(vals []string) []string, noZone string) ([]Sample, error) {
+	chunk, err := src.Next(ctx, n)
+	if err != nil && !errors.Is(err, io.EOF) {
+		return nil, err
+	}
+	if chunk == nil {
+		return nil, nil
+	}
+	var samples []Sample
+	var inputs enrich.Inputs
+	inputs.Reset(chunk.Len())
+	chunk.Extract(&inputs)
+	for i := range chunk.Len() {
+		s := Sample{Row: int64(i + 1), Err: inputs.Err[i], Note: inputs.Note[i]}
+		var re *enrich.RowError
+		if errors.As(s.Err, &re) {
+			re.Row, re.Line = s.Row, chunk.Line(i)
+		}
+		s.Value = pick(chunk.Values(i))
+		if s.Err == nil {
+			s.UTC = inputs.Time[i].UTC()
+			if z := inputs.Zone[i]; z != nil {
+				s.Local, s.Zone = inputs.Time[i].In(z), z.String()
+			} else {
+				s.Zone = noZone
+			}
+		}
+		samples = append(samples, s)
+	}
+	return samples, nil
 }
 
 func zoneSource(s enrich.Select) string {

@@ -2,14 +2,11 @@ package job
 
 import (
 	"context"
-	"errors"
-	"io"
 	"math"
 	"path/filepath"
 	"slices"
 	"strings"
 
-	"github.com/heliotag/heliotag/enrich"
 	"github.com/heliotag/heliotag/io/camtrap"
 )
 
@@ -102,36 +99,16 @@ func inspectPackage(ctx context.Context, o Options, n int) (*Inspection, error) 
 	case camtrap.AtEnd:
 		pi.SampleFields = append(pi.SampleFields, "eventEnd")
 	}
-	chunk, err := rd.Next(ctx, n)
-	if err != nil && !errors.Is(err, io.EOF) {
-		return nil, err
-	}
-	if chunk != nil {
-		var inputs enrich.Inputs
-		inputs.Reset(chunk.Len())
-		chunk.Extract(&inputs)
-		for i := range chunk.Len() {
-			s := Sample{Row: int64(i + 1), Err: inputs.Err[i], Note: inputs.Note[i]}
-			var re *enrich.RowError
-			if errors.As(s.Err, &re) {
-				re.Row, re.Line = s.Row, chunk.Line(i)
+	ins.Samples, err = readSamples(ctx, rd, n, func(vals []string) (v []string) {
+		for _, f := range pi.SampleFields {
+			if j := slices.Index(ins.Columns, f); j >= 0 && j < len(vals) {
+				v = append(v, vals[j])
 			}
-			vals := chunk.Values(i)
-			for _, f := range pi.SampleFields {
-				if j := slices.Index(ins.Columns, f); j >= 0 && j < len(vals) {
-					s.Value = append(s.Value, vals[j])
-				}
-			}
-			if s.Err == nil {
-				s.UTC = inputs.Time[i].UTC()
-				if z := inputs.Zone[i]; z != nil {
-					s.Local, s.Zone = inputs.Time[i].In(z), z.String()
-				} else {
-					s.Zone = "mean solar time (the time is in UTC)"
-				}
-			}
-			ins.Samples = append(ins.Samples, s)
 		}
+		return v
+	}, "mean solar time (the time is in UTC)")
+	if err != nil {
+		return nil, err
 	}
 	args := []string{"heliotag", "enrich", shellQuote(o.Input)}
 	if o.Select.TZ != "" {
