@@ -75,6 +75,21 @@ func runInspect(ctx context.Context, args []string, stdin io.Reader, stdout, std
 	}
 	fmt.Fprintf(w, "time zone: %s\n", ins.ZoneSource)
 	fmt.Fprintln(w, "sample rows:")
+	printSamples(w, ins)
+	return 0
+}
+
+func quoteAll(v []string) []string {
+	out := make([]string, len(v))
+	for i, s := range v {
+		out[i] = fmt.Sprintf("%q", s)
+	}
+	return out
+}
+
+// printSamples prints how the sample rows' times read, the enrich command
+// and how many sample rows would be bad rows.
+func printSamples(w io.Writer, ins *job.Inspection) {
 	bad := 0
 	for _, s := range ins.Samples {
 		fmt.Fprintf(w, "  row %d: %s\n", s.Row, strings.Join(quoteAll(s.Value), " "))
@@ -100,13 +115,4 @@ func runInspect(ctx context.Context, args []string, stdin io.Reader, stdout, std
 	if bad > 0 {
 		fmt.Fprintf(w, "%d of %d sample rows would be bad rows; see the problems above.\n", bad, len(ins.Samples))
 	}
-	return 0
-}
-
-func quoteAll(v []string) []string {
-	out := make([]string, len(v))
-	for i, s := range v {
-		out[i] = fmt.Sprintf("%q", s)
-	}
-	return out
 }

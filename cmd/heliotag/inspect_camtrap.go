@@ -5,7 +5,6 @@ import (
 	"io"
 	"strconv"
 	"strings"
-	"time"
 
 	"github.com/heliotag/heliotag/job"
 )
@@ -49,31 +48,7 @@ func printPackage(w io.Writer, ins *job.Inspection) {
 	fmt.Fprintln(w)
 	fmt.Fprintf(w, "time zone: %s\n", ins.ZoneSource)
 	fmt.Fprintf(w, "sample %s (%s):\n", p.SampleTable, strings.Join(p.SampleFields, ", "))
-	bad := 0
-	for _, s := range ins.Samples {
-		fmt.Fprintf(w, "  row %d: %s\n", s.Row, strings.Join(quoteAll(s.Value), " "))
-		if s.Err != nil {
-			bad++
-			fmt.Fprintf(w, "    problem: %v\n", s.Err)
-			continue
-		}
-		fmt.Fprintf(w, "    instant: %s\n", s.UTC.Format(time.RFC3339Nano))
-		if !s.Local.IsZero() {
-			fmt.Fprintf(w, "    local:   %s\n", s.Local.Format(time.RFC3339Nano))
-		} else {
-			fmt.Fprintf(w, "    local:   %s\n", s.Zone)
-		}
-		if s.Note != "" {
-			fmt.Fprintf(w, "    note:    %s\n", s.Note)
-		}
-	}
-	if len(ins.Samples) == 0 {
-		fmt.Fprintln(w, "  (no data rows)")
-	}
-	fmt.Fprintf(w, "command:   %s\n", ins.Command)
-	if bad > 0 {
-		fmt.Fprintf(w, "%d of %d sample rows would be bad rows; see the problems above.\n", bad, len(ins.Samples))
-	}
+	printSamples(w, ins)
 }
 
 func num(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
