@@ -268,6 +268,18 @@ type chunk struct {
 	out    *[]byte // the encoded rows, set by Encode
 }
 
+// Release hands back a chunk that will not be written (a reader drained
+// without a writer, as the read-only benchmark does), so that its buffers
+// are reused; a written chunk is handed back by Writer.Write. The chunk must
+// not be used afterwards.
+func (c *chunk) Release() {
+	if c.out != nil {
+		c.rd.outPool.Put(c.out)
+		c.out = nil
+	}
+	c.rd.inPool.Put(c)
+}
+
 func (c *chunk) Len() int            { return len(c.ends) }
 func (c *chunk) Line(i int) int64    { return c.lines[i] }
 func (c *chunk) record(i int) []byte { return c.buf[c.starts[i]:c.ends[i]] }

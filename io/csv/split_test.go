@@ -2,6 +2,8 @@ package csv
 
 import (
 	"bytes"
+	"context"
+	"strings"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
@@ -135,4 +137,24 @@ func FuzzSplitPlain(f *testing.F) {
 			}
 		}
 	})
+}
+
+// TestReleaseReuses: a released chunk's buffers serve the next chunk, and
+// the records read through it are unchanged.
+func TestReleaseReuses(t *testing.T) {
+	in := "lat,lon,time\n1,2,2024-01-01T00:00:00Z\n3,4,2024-01-01T00:00:00Z\n5,6,2024-01-01T00:00:00Z\n"
+	rd, err := NewReader(strings.NewReader(in), int64(len(in)), Options{})
+	require.NoError(t, err)
+	first, err := rd.Next(context.Background(), 2)
+	require.NoError(t, err)
+	c := first.(*chunk)
+	assert.Equal(t, []string{"1", "2", "2024-01-01T00:00:00Z"}, c.Values(0))
+	buf := &c.buf[:1][0]
+	c.Release()
+	second, err := rd.Next(context.Background(), 2)
+	require.NoError(t, err)
+	c2 := second.(*chunk)
+	assert.Same(t, buf, &c2.buf[:1][0], "the released chunk's buffer is reused")
+	assert.Equal(t, []string{"5", "6", "2024-01-01T00:00:00Z"}, c2.Values(0))
+	assert.Equal(t, 1, c2.Len())
 }
