@@ -131,6 +131,7 @@ func NewReader(r ReaderAtSeeker, o Options) (rd *Reader, err error) {
 			pf.Close()
 		}
 	}()
+	boundPageSizes(pf, props)
 	if v := pf.MetaData().KeyValueMetadata().FindValue("ARROW:schema"); v != nil {
 		if err := checkStoredSchema(*v); err != nil {
 			return nil, fmt.Errorf("%w: %w", ErrFile, err)

@@ -81,6 +81,7 @@ func OpenText(r ReaderAtSeeker, o TextOptions) (_ *TextReader, err error) {
 	if t.pf, err = file.NewParquetReader(r, file.WithReadProps(props)); err != nil {
 		return nil, fmt.Errorf("%w: %w", ErrFile, err)
 	}
+	boundPageSizes(t.pf, props)
 	t.total = t.pf.NumRows()
 	if v := t.pf.MetaData().KeyValueMetadata().FindValue("ARROW:schema"); v != nil {
 		if err := checkStoredSchema(*v); err != nil {
