@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"io"
 	"slices"
-	"strconv"
 	"strings"
 	"time"
 	"unicode/utf8"
@@ -185,8 +184,9 @@ func (t *TextReader) Next() (ok bool) {
 //   - null: "" (empty);
 //   - strings as they are; binary as its bytes when they are UTF-8, else
 //     lowercase hex;
-//   - integers in decimal; floats with strconv's 'g' format, shortest form
-//     (-1 precision); booleans true or false;
+//   - integers in decimal; floats in the shortest form that reads back to
+//     the same value, without an exponent between 1e-6 and 1e21 (as
+//     valueText writes them); booleans true or false;
 //   - timestamps with a zone (instants) in RFC 3339 with the fraction when
 //     present, at the offset of the type's zone ("Z" for UTC); timestamps
 //     without one as local date-times without an offset
@@ -278,7 +278,6 @@ func FooterRows(r ReaderAtSeeker) (n int64, err error) {
 // Layouts of the text a Parquet value becomes.
 const (
 	instantLayout = "2006-01-02T15:04:05.999999999Z07:00"
-	wallLayout    = "2006-01-02T15:04:05.999999999"
 )
 
 // cellText renders a[i] as text in the forms TextReader.Batch lists. loc is
@@ -288,64 +287,26 @@ func cellText(a arrow.Array, i int, loc *time.Location) string {
 		return ""
 	}
 	switch v := a.(type) {
-	case *array.String:
-		return strings.Clone(v.Value(i))
-	case *array.LargeString:
-		return strings.Clone(v.Value(i))
-	case *array.StringView:
-		return strings.Clone(v.Value(i))
+	case *array.String, *array.LargeString, *array.StringView:
+		return strings.Clone(valueText(a, i)) // the row outlives the batch
 	case *array.Binary:
 		return bytesText(v.Value(i))
 	case *array.LargeBinary:
 		return bytesText(v.Value(i))
 	case *array.BinaryView:
 		return bytesText(v.Value(i))
-	case *array.Boolean:
-		return strconv.FormatBool(v.Value(i))
-	case *array.Int8:
-		return strconv.FormatInt(int64(v.Value(i)), 10)
-	case *array.Int16:
-		return strconv.FormatInt(int64(v.Value(i)), 10)
-	case *array.Int32:
-		return strconv.FormatInt(int64(v.Value(i)), 10)
-	case *array.Int64:
-		return strconv.FormatInt(v.Value(i), 10)
-	case *array.Uint8:
-		return strconv.FormatUint(uint64(v.Value(i)), 10)
-	case *array.Uint16:
-		return strconv.FormatUint(uint64(v.Value(i)), 10)
-	case *array.Uint32:
-		return strconv.FormatUint(uint64(v.Value(i)), 10)
-	case *array.Uint64:
-		return strconv.FormatUint(v.Value(i), 10)
-	case *array.Float32:
-		return strconv.FormatFloat(float64(v.Value(i)), 'g', -1, 32)
-	case *array.Float64:
-		return strconv.FormatFloat(v.Value(i), 'g', -1, 64)
 	case *array.Timestamp:
 		tt := v.DataType().(*arrow.TimestampType)
-		tm := unitTime(int64(v.Value(i)), tt.Unit)
-		if tt.TimeZone == "" {
-			return tm.UTC().Format(wallLayout)
+		if tt.TimeZone == "" || loc == nil {
+			return valueText(a, i)
 		}
-		if loc == nil {
-			loc = time.UTC
-		}
-		return tm.In(loc).Format(instantLayout)
-	case *array.Date32:
-		return time.Unix(int64(v.Value(i))*86400, 0).UTC().Format(time.DateOnly)
-	case *array.Date64:
-		return time.UnixMilli(int64(v.Value(i))).UTC().Format(time.DateOnly)
-	case *array.Time32:
-		return clockText(int64(v.Value(i)) * int64(v.DataType().(*arrow.Time32Type).Unit.Multiplier()))
-	case *array.Time64:
-		return clockText(int64(v.Value(i)) * int64(v.DataType().(*arrow.Time64Type).Unit.Multiplier()))
+		return unitTime(int64(v.Value(i)), tt.Unit).In(loc).Format(instantLayout)
 	case *array.Dictionary:
 		return cellText(v.Dictionary(), v.GetValueIndex(i), loc)
 	case array.ExtensionArray:
 		return cellText(v.Storage(), i, loc)
 	}
-	return strings.Clone(a.ValueStr(i))
+	return strings.Clone(valueText(a, i)) // numbers, dates, times: as valueText writes them
 }
 
 // unitTime is the instant of a timestamp value counted in unit since the Unix epoch.

@@ -43,7 +43,8 @@ func TestCellText(t *testing.T) {
 		{"uint16", arrow.PrimitiveTypes.Uint16, func(b array.Builder) { b.(*array.Uint16Builder).Append(270) }, "270"},
 		{"uint64", arrow.PrimitiveTypes.Uint64, func(b array.Builder) { b.(*array.Uint64Builder).Append(18446744073709551615) }, "18446744073709551615"},
 		{"float64", arrow.PrimitiveTypes.Float64, func(b array.Builder) { b.(*array.Float64Builder).Append(54.512) }, "54.512"},
-		{"float64 small", arrow.PrimitiveTypes.Float64, func(b array.Builder) { b.(*array.Float64Builder).Append(0.00001) }, "1e-05"},
+		{"float64 small", arrow.PrimitiveTypes.Float64, func(b array.Builder) { b.(*array.Float64Builder).Append(0.00001) }, "0.00001"}, // as valueText: plain between 1e-6 and 1e21
+		{"float64 tiny", arrow.PrimitiveTypes.Float64, func(b array.Builder) { b.(*array.Float64Builder).Append(1e-9) }, "1e-09"},
 		{"float32", arrow.PrimitiveTypes.Float32, func(b array.Builder) { b.(*array.Float32Builder).Append(-2.931) }, "-2.931"},
 		{"timestamp UTC", &arrow.TimestampType{Unit: arrow.Microsecond, TimeZone: "UTC"},
 			func(b array.Builder) { b.(*array.TimestampBuilder).Append(arrow.Timestamp(us)) }, "2024-06-12T20:47:05.123456Z"},
