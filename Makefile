@@ -28,6 +28,7 @@ lint:
 test: lint
 	$(GO) test -count=1 $(PKGS)
 	$(GO) test -count=1 -race $(RACE_PKGS)
+	$(GO) test -count=1 -race -run 'Grid' ./solar/
 
 demo: build
 	@mkdir -p $(OUT)

@@ -18,8 +18,10 @@ type worker struct {
 	windows map[windowKey]window
 }
 
-func newWorker(o solar.Options) *worker {
-	return &worker{kernel: solar.NewKernel(o), opts: o, windows: make(map[windowKey]window)}
+// newWorker returns a worker whose kernel shares grid's geocentric values
+// with the other workers' kernels.
+func newWorker(o solar.Options, grid *solar.Grid) *worker {
+	return &worker{kernel: grid.NewKernel(), opts: o, windows: make(map[windowKey]window)}
 }
 
 // moonKernel returns the worker's Moon kernel, building it on first use.

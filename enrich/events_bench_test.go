@@ -131,7 +131,7 @@ func BenchmarkEvents(b *testing.B) {
 				name = "no-window-cache"
 			}
 			b.Run(fmt.Sprintf("%s/%s/n=%d", sh.name, name, DefaultBatchRows), func(b *testing.B) {
-				w := newWorker(solar.Options{})
+				w := newWorker(solar.Options{}, solar.NewGrid(solar.Options{}))
 				res := &Results{Plan: plan}
 				one := &Results{Plan: plan}
 				var in1 Inputs

@@ -121,9 +121,11 @@ func Run(ctx context.Context, src Source, sink Sink, o Options) (Summary, error)
 
 	// Per-worker computing state: a worker takes one for a batch and puts
 	// it back, so each state (and its caches) serves one goroutine at a time.
+	// Their kernels share one grid of the sun's geocentric values.
 	states := make(chan *worker, workers)
+	grid := solar.NewGrid(o.Solar)
 	for range workers {
-		states <- newWorker(o.Solar)
+		states <- newWorker(o.Solar, grid)
 	}
 	// Free lists, not sync.Pool: kept across collections, so the heap stops
 	// growing once the batches in flight have their buffers.

@@ -158,3 +158,42 @@ func BenchmarkCompare(b *testing.B) {
 	b.ReportMetric(fastRate/chainRate, "x_meeus")
 	_ = sink
 }
+
+// BenchmarkKernelStart measures what two pipeline workers pay to fill their caches: 262,144 rows of random
+// places and instants over ten years (2014–2023, as the generated crash records), in batches of 8,192 rows
+// handed to the two kernels in turn, with new kernels every iteration. "private" kernels compute every grid
+// node each; "grid" kernels come from one Grid and compute each node once between them.
+func BenchmarkKernelStart(b *testing.B) {
+	const n, batch = 1 << 18, 8192
+	unix, lat, lon := benchRows(n)
+	rng := rand.New(rand.NewPCG(9, 9))
+	lo, hi := yearUnix(2014), yearUnix(2024)
+	for i := range unix {
+		unix[i] = lo + rng.Float64()*(hi-lo)
+	}
+	for _, shared := range []bool{false, true} {
+		name := "private"
+		if shared {
+			name = "grid"
+		}
+		b.Run(name, func(b *testing.B) {
+			var out Positions
+			b.ReportAllocs()
+			for b.Loop() {
+				var ks [2]*Kernel
+				g := NewGrid(Options{})
+				for j := range ks {
+					if shared {
+						ks[j] = g.NewKernel()
+					} else {
+						ks[j] = NewKernel(Options{})
+					}
+				}
+				for at := 0; at < n; at += batch {
+					ks[at/batch%2].Positions(unix[at:at+batch], lat[at:at+batch], lon[at:at+batch], &out)
+				}
+			}
+			b.ReportMetric(b.Elapsed().Seconds()*1e9/float64(n*b.N), "ns/row")
+		})
+	}
+}

@@ -2,6 +2,7 @@ package solar
 
 import (
 	"math"
+	"sync"
 )
 
 // The batch path evaluates the reference's geocentric quantities at grid instants ("nodes", every gridStep
@@ -16,6 +17,9 @@ import (
 // nutation (period 13.7 d, amplitude 0.00006°) and the Moon's pull on the Earth (period 29.5 d, 0.0018°). On
 // the middle interval of six nodes a quintic errs by at most 0.0049·(ωh)⁶ times a term's amplitude: about
 // 2e-7° and 5e-8°. TestKernelAccuracy measures the total against the reference path (under 1e-6°).
+//
+// Nodes cost one reference evaluation each (about 10 µs); kernels made by one [Grid] share them, so that
+// workers handling the same rows' instants evaluate each node once between them.
 const (
 	gridStep     = 2 * secondsPerDay // seconds between nodes
 	minCellSlots = 1 << 10           // 1024 cells: 5.6 years of 2-day cells without collisions
@@ -56,6 +60,7 @@ type Kernel struct {
 	refr          float64 // refraction scale × 1.02/60, degrees; 0 with Options.NoRefraction
 	elev          float64 // observer elevation / equatorial radius
 	options       Options // for ΔT at the nodes
+	grid          *Grid   // nodes shared with the grid's other kernels
 	cells         []cell  // len is a power of two
 	nodes         []node  // len is nodesPerCell × len(cells)
 	evictions     int     // cells and nodes replaced since the caches were last (re)built
@@ -69,25 +74,69 @@ type Kernel struct {
 
 // NewKernel returns a kernel for the given options (see [Options]; validate them first with
 // [Options.Validate]: with invalid options every row gets NaN and PhaseUnknown). Its caches take 260 kB at
-// first and grow up to about 8 MB when the rows' instants span more than a few years.
+// first and grow up to about 8 MB when the rows' instants span more than a few years. Kernels for several
+// goroutines are better made by one [Grid].
 func NewKernel(o Options) *Kernel {
+	return NewGrid(o).NewKernel()
+}
+
+// Grid holds the geocentric quantities at the batch path's grid instants for the kernels it makes, so that
+// they compute each instant once between them: several workers handling rows of the same years then share
+// the cost of building their caches. A Grid is safe for concurrent use; each of its kernels is not. It holds
+// at most 65,536 instants (about 6 MB), 359 years of the grid; beyond that its kernels compute what it does
+// not hold.
+type Grid struct {
+	options Options
+	mu      sync.RWMutex
+	nodes   map[int64]node
+}
+
+// maxGridNodes bounds a Grid: as many nodes as the largest kernel caches hold.
+const maxGridNodes = nodesPerCell * maxCellSlots
+
+// NewGrid returns an empty grid for the given options (the kernels' options; see [NewKernel]).
+func NewGrid(o Options) *Grid {
+	if o.DeltaT != nil { // keep our own copy: the caller may change *o.DeltaT later
+		o.DeltaT = ptrTo(*o.DeltaT)
+	}
+	if o.Temperature != nil {
+		o.Temperature = ptrTo(*o.Temperature)
+	}
+	return &Grid{options: o, nodes: make(map[int64]node)}
+}
+
+// NewKernel returns a kernel with the grid's options, sharing the grid's nodes (see [NewKernel]).
+func (g *Grid) NewKernel() *Kernel {
+	o := g.options
 	k := &Kernel{
 		ok:      o.Validate() == nil,
 		refr:    o.refractionScale() * 1.02 / 60,
 		elev:    o.Elevation / earthRadius,
 		options: o,
+		grid:    g,
 	}
 	if o.NoRefraction {
 		k.refr = 0
 	}
-	if o.DeltaT != nil { // keep our own copy: the caller may change *o.DeltaT later
-		k.options.DeltaT = ptrTo(*o.DeltaT)
-	}
-	if o.Temperature != nil {
-		k.options.Temperature = ptrTo(*o.Temperature)
-	}
 	k.allocate(minCellSlots)
 	return k
+}
+
+// lookup returns node nk if the grid holds it.
+func (g *Grid) lookup(nk int64) (node, bool) {
+	g.mu.RLock()
+	nd, ok := g.nodes[nk]
+	g.mu.RUnlock()
+	return nd, ok
+}
+
+// store adds a computed node, unless the grid is full.
+func (g *Grid) store(nd node) {
+	g.mu.Lock()
+	if len(g.nodes) < maxGridNodes {
+		g.nodes[nd.tag] = nd
+	}
+	g.mu.Unlock()
 }
 
 // allocate replaces the caches with empty ones of n cell slots.
@@ -350,6 +399,10 @@ func (k *Kernel) node(nk int64) *node {
 		k.evictions++
 		k.callEvictions++
 	}
+	if shared, ok := k.grid.lookup(nk); ok {
+		*nd = shared
+		return nd
+	}
 	unix := float64(nk) * gridStep
 	g := GeocentricAt(JulianDay(unix), k.options.DeltaTAt(unix))
 	nd.ra = g.RightAscension
@@ -357,5 +410,6 @@ func (k *Kernel) node(nk int64) *node {
 	nd.sinDec, nd.cosDec = math.Sincos(g.Declination * deg)
 	nd.sinXi = math.Sin(parallaxArcsec / (3600 * g.Distance) * deg)
 	nd.tag = nk
+	k.grid.store(*nd)
 	return nd
 }

@@ -330,3 +330,48 @@ func FuzzKernel(f *testing.F) {
 		}
 	})
 }
+
+// TestGridSharedKernels checks that kernels sharing a Grid, run at the same time on different goroutines
+// (make test runs this under the race detector), give bit for bit what a kernel of its own gives, over
+// rows spread across ten years so that most nodes are computed by one kernel and read by the other.
+func TestGridSharedKernels(t *testing.T) {
+	const n, batch = 40000, 4000
+	unix, lat, lon := benchRows(n)
+	rng := rand.New(rand.NewPCG(11, 11))
+	lo, hi := yearUnix(2014), yearUnix(2024)
+	for i := range unix {
+		unix[i] = lo + rng.Float64()*(hi-lo)
+	}
+	dt := 69.0
+	o := Options{DeltaT: &dt, Elevation: 300}
+	var want Positions
+	NewKernel(o).Positions(unix, lat, lon, &want)
+
+	g := NewGrid(o)
+	got := make([]Positions, n/batch)
+	done := make(chan struct{})
+	for w := range 2 {
+		go func() {
+			defer func() { done <- struct{}{} }()
+			k := g.NewKernel()
+			for b := w; b < n/batch; b += 2 {
+				at := b * batch
+				k.Positions(unix[at:at+batch], lat[at:at+batch], lon[at:at+batch], &got[b])
+			}
+		}()
+	}
+	<-done
+	<-done
+	for b := range got {
+		for j := range batch {
+			i := b*batch + j
+			if got[b].Altitude[j] != want.Altitude[i] || got[b].Azimuth[j] != want.Azimuth[i] || got[b].Phase[j] != want.Phase[i] {
+				t.Fatalf("row %d: shared kernels %v %v %v, own kernel %v %v %v", i,
+					got[b].Altitude[j], got[b].Azimuth[j], got[b].Phase[j], want.Altitude[i], want.Azimuth[i], want.Phase[i])
+			}
+		}
+	}
+	if len(g.nodes) == 0 || len(g.nodes) > maxGridNodes {
+		t.Fatalf("grid holds %d nodes, want 1..%d", len(g.nodes), maxGridNodes)
+	}
+}
