@@ -170,3 +170,78 @@ func atoi(s string) int {
 	}
 	return v
 }
+
+// fastDateTime reads the commonest pair of texts without the general path's steps: an ISO date
+// (2024-06-21) and a time of day as HMM or HHMM digits, H:MM, HH:MM, H:MM:SS or HH:MM:SS, with no spaces,
+// marker or offset, and every value in range. It reports false for anything else, which the general path
+// then reads (or explains); on true, st holds what the general path would (FuzzFastDateTime checks it).
+func fastDateTime(date, clock string, st *Stamp) bool {
+	if len(date) != 10 || date[4] != '-' || date[7] != '-' {
+		return false
+	}
+	y0, y1, y2, y3 := date[0]-'0', date[1]-'0', date[2]-'0', date[3]-'0'
+	m0, m1, d0, d1 := date[5]-'0', date[6]-'0', date[8]-'0', date[9]-'0'
+	if y0 > 9 || y1 > 9 || y2 > 9 || y3 > 9 || m0 > 9 || m1 > 9 || d0 > 9 || d1 > 9 {
+		return false
+	}
+	y := int(y0)*1000 + int(y1)*100 + int(y2)*10 + int(y3)
+	m := int(m0)*10 + int(m1)
+	d := int(d0)*10 + int(d1)
+	if y < 1 || m < 1 || m > 12 || d < 1 || d > daysIn(y, m) {
+		return false
+	}
+	var hh, mm, ss int
+	switch n := len(clock); {
+	case n == 4 && clock[1] != ':' || n == 3:
+		var v [4]byte
+		for i := range n {
+			if v[i] = clock[i] - '0'; v[i] > 9 {
+				return false
+			}
+		}
+		if n == 3 {
+			hh, mm = int(v[0]), int(v[1])*10+int(v[2])
+		} else {
+			hh, mm = int(v[0])*10+int(v[1]), int(v[2])*10+int(v[3])
+		}
+	case n == 4 || n == 5 || n == 7 || n == 8:
+		h := n & 1 // 1 for HH:MM and HH:MM:SS, 0 for H:MM and H:MM:SS
+		if n >= 7 {
+			h = 1 - n&1
+		}
+		// clock[:h+1] is the hour, clock[h+1] a colon, then two digits, then for seconds a colon and two.
+		var v [2]byte
+		for i := 0; i <= h; i++ {
+			if v[i] = clock[i] - '0'; v[i] > 9 {
+				return false
+			}
+		}
+		hh = int(v[0])
+		if h == 1 {
+			hh = hh*10 + int(v[1])
+		}
+		if clock[h+1] != ':' {
+			return false
+		}
+		a, b := clock[h+2]-'0', clock[h+3]-'0'
+		if a > 9 || b > 9 {
+			return false
+		}
+		mm = int(a)*10 + int(b)
+		if n >= 7 {
+			a, b := clock[h+5]-'0', clock[h+6]-'0'
+			if clock[h+4] != ':' || a > 9 || b > 9 {
+				return false
+			}
+			ss = int(a)*10 + int(b)
+		}
+	default:
+		return false
+	}
+	if hh > 23 || mm > 59 || ss > 59 {
+		return false
+	}
+	st.Year, st.Month, st.Day = y, monthOf(m), d
+	st.Hour, st.Minute, st.Second = hh, mm, ss
+	return true
+}

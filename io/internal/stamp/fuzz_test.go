@@ -139,3 +139,32 @@ func FuzzEpoch(f *testing.F) {
 		}
 	})
 }
+
+// FuzzFastDateTime: whenever the fast path of ParseDateTime takes a date and time-of-day pair, the general
+// path reads the same stamp from it without error.
+func FuzzFastDateTime(f *testing.F) {
+	for _, c := range [][2]string{
+		{"2024-06-21", "0730"}, {"2024-06-21", "730"}, {"2024-02-29", "7:30"}, {"2023-02-29", "07:30"},
+		{"2024-12-31", "23:59:59"}, {"0001-01-01", "0:00:00"}, {"0000-01-01", "0000"}, {"2024-06-21", "24:00"},
+		{"2024-06-21", "7:30 PM"}, {"2024-06-21", "0730Z"}, {"2024-06-21", "07:60"}, {"2024-13-01", "1200"},
+		{"2024-06-21", "7:3"}, {"2024-06-21", "07:30:60"}, {"2024/06/21", "1200"}, {"2024-06-21", "12:30+02"},
+	} {
+		f.Add(c[0], c[1])
+	}
+	f.Fuzz(func(t *testing.T, date, clock string) {
+		var fast Stamp
+		if !fastDateTime(date, clock, &fast) {
+			return
+		}
+		var want Stamp
+		if err := parseISODate(date, &want); err != nil {
+			t.Fatalf("fast path took %q %q, general path: %v", date, clock, err)
+		}
+		if err := parseClock(clock, &want); err != nil {
+			t.Fatalf("fast path took %q %q, general path: %v", date, clock, err)
+		}
+		if fast != want {
+			t.Fatalf("%q %q: fast path %+v, general path %+v", date, clock, fast, want)
+		}
+	})
+}

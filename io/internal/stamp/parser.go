@@ -185,6 +185,9 @@ func (p *Parser) ParseDateTime(date, clock string) (Stamp, error) {
 		return Stamp{}, p.splitErr
 	}
 	var st Stamp
+	if p.date == nil && p.clock == nil && fastDateTime(date, clock, &st) {
+		return st, nil
+	}
 	var v values
 	if p.date != nil {
 		t := trim(date)
