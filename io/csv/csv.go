@@ -102,7 +102,7 @@ func NewReader(r io.Reader, size int64, o Options) (*Reader, error) {
 	}
 	var raw []byte
 	for {
-		rec, lines, err := rd.readRecord(nil)
+		rec, lines, _, err := rd.readRecord(nil)
 		if err == io.EOF {
 			return nil, fmt.Errorf("%w: the input is empty; the first line must name the columns", ErrNoHeader)
 		}
@@ -156,7 +156,7 @@ func delimName(b byte) string {
 // readRecord appends the next record's raw bytes (with its line terminator)
 // to dst; lines is the number of line breaks it spans. A record continues over
 // line breaks while a quote is open (odd number of quotes so far).
-func (rd *Reader) readRecord(dst []byte) (rec []byte, lines int64, err error) {
+func (rd *Reader) readRecord(dst []byte) (rec []byte, lines int64, quoted bool, err error) {
 	start := len(dst)
 	quotes := 0
 	for {
@@ -168,7 +168,7 @@ func (rd *Reader) readRecord(dst []byte) (rec []byte, lines int64, err error) {
 				lines++
 			}
 			if len(dst)-start > MaxRecordBytes {
-				return dst, lines, fmt.Errorf("%w: a record starting at line %d is longer than %d MiB; is a quote left open?", ErrRecordTooLarge, rd.line+1, MaxRecordBytes>>20)
+				return dst, lines, quotes > 0, fmt.Errorf("%w: a record starting at line %d is longer than %d MiB; is a quote left open?", ErrRecordTooLarge, rd.line+1, MaxRecordBytes>>20)
 			}
 		}
 		switch {
@@ -176,17 +176,17 @@ func (rd *Reader) readRecord(dst []byte) (rec []byte, lines int64, err error) {
 			continue
 		case err == io.EOF:
 			if len(dst) == start {
-				return dst, lines, io.EOF
+				return dst, lines, quotes > 0, io.EOF
 			}
 			if quotes%2 == 1 {
-				return dst, lines, fmt.Errorf("%w: the quoted field of the record starting at line %d runs to the end of the input; close it with \"", ErrUnclosedQuote, rd.line+1)
+				return dst, lines, quotes > 0, fmt.Errorf("%w: the quoted field of the record starting at line %d runs to the end of the input; close it with \"", ErrUnclosedQuote, rd.line+1)
 			}
-			return dst, lines, nil
+			return dst, lines, quotes > 0, nil
 		case err != nil:
-			return dst, lines, fmt.Errorf("reading input: %w", err)
+			return dst, lines, quotes > 0, fmt.Errorf("reading input: %w", err)
 		}
 		if quotes%2 == 0 {
-			return dst, lines, nil
+			return dst, lines, quotes > 0, nil
 		}
 	}
 }
@@ -224,7 +224,7 @@ func (rd *Reader) Next(ctx context.Context, max int) (enrich.Chunk, error) {
 	// Chunks come back to the pool once written, with their buffers.
 	c := rd.inPool.Get()
 	c.rd = rd
-	c.buf, c.starts, c.ends, c.lines = c.buf[:0], c.starts[:0], c.ends[:0], c.lines[:0]
+	c.buf, c.starts, c.ends, c.lines, c.quoted = c.buf[:0], c.starts[:0], c.ends[:0], c.lines[:0], false
 	if cap(c.buf) == 0 {
 		c.buf = make([]byte, 0, 64*max)
 		c.starts, c.ends, c.lines = make([]int, 0, max), make([]int, 0, max), make([]int64, 0, max)
@@ -233,8 +233,9 @@ func (rd *Reader) Next(ctx context.Context, max int) (enrich.Chunk, error) {
 		startLine := rd.line + 1
 		before := len(c.buf)
 		var lines int64
+		var quoted bool
 		var err error
-		c.buf, lines, err = rd.readRecord(c.buf)
+		c.buf, lines, quoted, err = rd.readRecord(c.buf)
 		rd.line += lines
 		if err == io.EOF {
 			break
@@ -247,6 +248,7 @@ func (rd *Reader) Next(ctx context.Context, max int) (enrich.Chunk, error) {
 			c.buf = c.buf[:before]
 			continue
 		}
+		c.quoted = c.quoted || quoted
 		c.starts = append(c.starts, before)
 		c.ends = append(c.ends, before+body)
 		c.lines = append(c.lines, startLine)
@@ -265,6 +267,7 @@ type chunk struct {
 	starts []int // record i is buf[starts[i]:ends[i]], line terminator excluded
 	ends   []int
 	lines  []int64
+	quoted bool    // some record holds a quote
 	out    *[]byte // the encoded rows, set by Encode
 }
 
@@ -292,7 +295,7 @@ func (c *chunk) Extract(in *enrich.Inputs) {
 	for i := range c.ends {
 		r := c.record(i)
 		n := 0
-		if bytes.IndexByte(r, '"') < 0 {
+		if !c.quoted || bytes.IndexByte(r, '"') < 0 {
 			// No quotes: count the fields, and split only as far as the
 			// last column the extractor reads (the rest stay unsplit).
 			n = bytes.Count(r, []byte{d}) + 1

@@ -283,7 +283,12 @@ func (x *Extractor) Time(rec []string, i int, lat, lon float64, in *enrich.Input
 // (solar.Check) so that every format reports it the same way; here only the
 // syntax, with the valid range named in the message.
 func Coordinate(s, what string, limit int) (float64, error) {
-	t := strings.TrimSpace(s)
+	t := s
+	// Most values have nothing to trim: no ASCII space or control, and no
+	// multi-byte (possibly Unicode space) character, at either end.
+	if t == "" || t[0]-'!' > '~'-'!' || t[len(t)-1]-'!' > '~'-'!' {
+		t = strings.TrimSpace(s)
+	}
 	if t == "" {
 		return 0, fmt.Errorf("%s is %w; expected decimal degrees in [%d, %d]", what, ErrEmpty, -limit, limit)
 	}
