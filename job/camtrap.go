@@ -47,6 +47,9 @@ func enrichPackage(ctx context.Context, o Options) (res Result, err error) {
 	if err := checkPackageFlags(o); err != nil {
 		return res, err
 	}
+	if o.BatchRows <= 0 { // tables are read as CSV text
+		o.BatchRows = formats.TextBatchRows
+	}
 	if err := o.Solar.Validate(); err != nil {
 		return res, fmt.Errorf("%w: %w", enrich.ErrUsage, err)
 	}

@@ -47,7 +47,7 @@ type Options struct {
 	Rejects string // rejects file for the skip policy
 
 	Workers   int
-	BatchRows int
+	BatchRows int // rows per batch; 0 = the input format's default (formats.Format.BatchRows)
 
 	Report string // JSON report path; "" = none
 
@@ -147,6 +147,9 @@ func Enrich(ctx context.Context, o Options, stdin io.Reader, stdout io.Writer) (
 		return res, err
 	}
 	defer in.Close()
+	if o.BatchRows <= 0 {
+		o.BatchRows = in.Format.BatchRows()
+	}
 
 	plan, err := enrich.NewPlan(enrich.PlanOptions{
 		Add: o.Add, Prefix: o.Prefix, Input: in.Source.Columns(),

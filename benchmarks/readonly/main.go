@@ -57,7 +57,7 @@ func run(ctx context.Context, args []string, stderr io.Writer) int {
 	fs.StringVar(&sel.Date, "date", "", "date `COL`")
 	fs.StringVar(&sel.TZ, "tz", "", "time `ZONE` of local times")
 	from := fs.String("from", "", "input `FORMAT` (default: from the extension)")
-	batch := fs.Int("batch-rows", enrich.DefaultBatchRows, "rows per `BATCH`")
+	batch := fs.Int("batch-rows", 0, "rows per `BATCH` (default: the format's, as heliotag enrich)")
 	want := fs.Int64("rows", -1, "fail unless exactly `N` rows are read")
 	cpuprofile := fs.String("cpuprofile", "", "write a CPU profile to `FILE`")
 	var files []string
@@ -96,6 +96,9 @@ func run(ctx context.Context, args []string, stderr io.Writer) int {
 	}
 	start := time.Now()
 	var rows int64
+	if *batch <= 0 {
+		*batch = f.BatchRows()
+	}
 	if f == formats.Parquet {
 		rows, err = drainParquet(ctx, path, *batch)
 	} else {

@@ -125,7 +125,7 @@ func newEnrichFlags(fs *flag.FlagSet, ef *enrichFlags) {
 	fs.StringVar(&o.Rejects, "rejects", "", "`FILE` for rows left out by --on-bad-row skip (default: beside the output)")
 	fs.StringVar(&o.Report, "report", "", "write the run's figures to `FILE`.json")
 	fs.IntVar(&o.Workers, "workers", runtime.NumCPU(), "`N` worker goroutines")
-	fs.IntVar(&o.BatchRows, "batch-rows", enrich.DefaultBatchRows, "`N` rows per batch")
+	fs.IntVar(&o.BatchRows, "batch-rows", 0, "`N` rows per batch (default 1024 for text formats, 8192 for Parquet)")
 	fs.StringVar(&ef.progress, "progress", "auto", "progress bar on stderr: auto|never|always")
 	fs.BoolVar(&ef.quiet, "q", false, "quiet: no progress bar and no summary line")
 	fs.StringVar(&ef.cpuprofile, "cpuprofile", "", "write a CPU profile to `FILE`")
@@ -175,7 +175,9 @@ func runEnrich(ctx context.Context, args []string, stdin io.Reader, stdout, stde
 	if o.Solar.Pressure == 1010 {
 		o.Solar.Pressure = 0 // the default
 	}
-	if o.Workers < 1 || o.BatchRows < 1 {
+	batchGiven := false // 0 means the format's default, but is no batch size to give
+	fs.Visit(func(f *flag.Flag) { batchGiven = batchGiven || f.Name == "batch-rows" })
+	if o.Workers < 1 || o.BatchRows < 0 || batchGiven && o.BatchRows < 1 {
 		return flagError(stderr, "enrich", errors.New("--workers and --batch-rows must be at least 1"))
 	}
 	showBar := false

@@ -71,8 +71,9 @@ func TestReportJSON(t *testing.T) {
 		Phases     map[string]int64 `json:"rows_by_sun_phase"`
 		Conditions map[string]int64 `json:"rows_by_light_condition"`
 		Options    struct {
-			OnBadRow string `json:"on_bad_row"`
-			Rejects  string `json:"rejects"`
+			OnBadRow  string `json:"on_bad_row"`
+			Rejects   string `json:"rejects"`
+			BatchRows int    `json:"batch_rows"`
 		} `json:"options"`
 	}
 	require.NoError(t, json.Unmarshal(b, &rep))
@@ -93,7 +94,27 @@ func TestReportJSON(t *testing.T) {
 	assert.Equal(t, map[string]int64{"daylight": 1, "dark": 1}, rep.Conditions)
 	assert.Equal(t, "skip", rep.Options.OnBadRow)
 	assert.Equal(t, "out.rejects.csv", rep.Options.Rejects)
+	assert.Equal(t, 1024, rep.Options.BatchRows, "the text formats' default batch")
 	assert.NotEmpty(t, rep.Version)
+}
+
+// TestBatchRowsFlag: --batch-rows takes a positive number; 0 is refused (leaving the flag out gives the
+// format's default).
+func TestBatchRowsFlag(t *testing.T) {
+	dir := t.TempDir()
+	t.Chdir(dir)
+	require.NoError(t, os.WriteFile("in.csv", []byte("id,lat,lon,timestamp\n1,51.5,-0.12,2024-06-21T12:00:00Z\n"), 0o644))
+	for _, c := range []struct {
+		value string
+		code  int
+	}{{"0", 2}, {"-5", 2}, {"1", 0}, {"100000", 0}} {
+		var stdout, stderr bytes.Buffer
+		code := run(context.Background(), []string{"enrich", "in.csv", "--batch-rows", c.value, "-q", "-o", "out.csv", "--force"}, nil, &stdout, &stderr)
+		assert.Equal(t, c.code, code, "--batch-rows %s: %s", c.value, stderr.String())
+		if c.code == 2 {
+			assert.Contains(t, stderr.String(), "--batch-rows must be at least 1")
+		}
+	}
 }
 
 func TestHelpHasExamples(t *testing.T) {

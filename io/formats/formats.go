@@ -34,6 +34,22 @@ var supported = []Format{CSV, TSV, GeoJSON, GeoJSONSeq, Parquet}
 // Text reports whether f is a text format (may be gzipped, read from stdin).
 func (f Format) Text() bool { return f != Parquet }
 
+// TextBatchRows is the default batch of the text formats: rows are parsed
+// one by one, and a batch whose rows, inputs and results stay in the
+// processor's caches is faster than a large one (benchmarks/RESULTS.md,
+// "Batch size").
+const TextBatchRows = 1024
+
+// BatchRows is f's default number of rows per batch (enrich.Options.BatchRows):
+// TextBatchRows for the text formats, and enrich.DefaultBatchRows for
+// Parquet, whose record batches cost more per batch than per row.
+func (f Format) BatchRows() int {
+	if f.Text() {
+		return TextBatchRows
+	}
+	return enrich.DefaultBatchRows
+}
+
 // Detect returns the format named by from, or else by path's extension
 // (".gz" looked through).
 func Detect(path, from string) (Format, error) {
