@@ -104,19 +104,36 @@ func FuzzSplitRecord(f *testing.F) {
 	})
 }
 
-func TestSplitPlain(t *testing.T) {
-	got := splitPlain(nil, []byte("a,b,c,d"), ',', 4, 2)
+func TestSplitCount(t *testing.T) {
+	got, n := splitCount(nil, []byte("a,b,c,d"), ',', 4, 2)
+	assert.Equal(t, 4, n)
 	assert.Equal(t, []string{"a", "b", "", ""}, got, "only the needed fields are split")
-	got = splitPlain(got, []byte("x,,z,w"), ',', 4, 4)
+	got, n = splitCount(got, []byte("x,,z,w"), ',', 4, 4)
+	assert.Equal(t, 4, n)
 	assert.Equal(t, []string{"x", "", "z", "w"}, got)
-	got = splitPlain(got, []byte("p,q,r,s"), ',', 4, 1)
+	got, n = splitCount(got, []byte("p,q,r,s"), ',', 4, 1)
+	assert.Equal(t, 4, n)
 	assert.Equal(t, []string{"p", "", "", ""}, got, "no stale values from the previous row")
+	// Delimiters in every position of a word, and a byte one above the
+	// delimiter after it ("-" after ","), which a carrying zero-byte test
+	// would take for a delimiter.
+	got, n = splitCount(got, []byte("c0,2016-08-05,0652,39.01600,-86.38473,fatal,4"), ',', 7, 5)
+	assert.Equal(t, 7, n)
+	assert.Equal(t, []string{"c0", "2016-08-05", "0652", "39.01600", "-86.38473", "", ""}, got)
+	_, n = splitCount(got, []byte("1,2,3"), ',', 4, 4)
+	assert.Equal(t, 3, n, "a short record is counted")
+	_, n = splitCount(got, []byte("1,2,3,4,5,6,7,8,9,10"), ',', 4, 4)
+	assert.Equal(t, 10, n, "a long record is counted")
+	got, n = splitCount(got, []byte("a\tb\t-c"), '\t', 3, 3)
+	assert.Equal(t, 3, n)
+	assert.Equal(t, []string{"a", "b", "-c"}, got)
 }
 
-// FuzzSplitPlain: on a record without quotes, splitPlain gives
-// splitRecord's first need fields (and empty ones after them).
-func FuzzSplitPlain(f *testing.F) {
-	for _, s := range []string{"a,b,c", ",,", "", "1,2,3,4,5,6,7", "x,", ",y"} {
+// FuzzSplitCount: on a record without quotes, splitCount counts the fields
+// as splitRecord does and gives the first need fields exactly, the others
+// empty.
+func FuzzSplitCount(f *testing.F) {
+	for _, s := range []string{"a,b,c", ",,", "", "1,2,3,4,5,6,7", "x,", ",y", "c0,2016-08-05,0652,39.01600,-86.38473,fatal,4", ",-,-,-,-,-,-,-,-,-"} {
 		f.Add([]byte(s), uint8(2))
 	}
 	f.Fuzz(func(t *testing.T, rec []byte, need uint8) {
@@ -127,7 +144,8 @@ func FuzzSplitPlain(f *testing.F) {
 		require.NoError(t, err)
 		n := len(want)
 		k := int(need) % (n + 2)
-		got := splitPlain([]string{"stale", "stale"}, rec, ',', n, k)
+		got, count := splitCount([]string{"stale", "stale"}, rec, ',', n, k)
+		require.Equal(t, n, count, "fields of %q", rec)
 		require.Len(t, got, n)
 		for j := range n {
 			if j < k {
@@ -136,6 +154,8 @@ func FuzzSplitPlain(f *testing.F) {
 				require.Equal(t, "", got[j], "field %d of %q", j, rec)
 			}
 		}
+		_, count = splitCount(nil, rec, ',', n+1, k)
+		require.Equal(t, n, count, "fields of %q, when another count is expected", rec)
 	})
 }
 
