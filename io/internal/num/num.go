@@ -3,6 +3,7 @@ package num
 
 import (
 	"math"
+	"slices"
 	"strconv"
 )
 
@@ -21,7 +22,11 @@ func AppendFixed(b []byte, v float64, dec int) []byte {
 	}
 	scaled := math.Round(v * pow10[dec])
 	n := uint64(math.Abs(scaled))
-	if scaled < 0 && n != 0 {
+	neg := scaled < 0 && n != 0
+	if dec == 4 && n < 1000*1e4 {
+		return append4(b, n, neg)
+	}
+	if neg {
 		b = append(b, '-')
 	}
 	// Digits are written backwards into buf, two at a time from a table;
@@ -58,6 +63,49 @@ func AppendFixed(b []byte, v float64, dec int) []byte {
 		buf[i] = byte('0' + n)
 	}
 	return append(b, buf[i:]...)
+}
+
+// append4 appends n/10⁴ with four decimals, for n < 10⁷ (the degrees of
+// angles, the commonest case), straight into b's spare room.
+func append4(b []byte, n uint64, neg bool) []byte {
+	ip, fp := uint32(n/1e4), uint32(n%1e4)
+	size := 5 // the point and four decimals
+	switch {
+	case ip < 10:
+		size++
+	case ip < 100:
+		size += 2
+	default:
+		size += 3
+	}
+	if neg {
+		size++
+	}
+	o := len(b)
+	b = slices.Grow(b, size)[:o+size]
+	out := b[o:]
+	if neg {
+		out[0] = '-'
+		out = out[1:]
+	}
+	switch {
+	case ip < 10:
+		out[0] = byte('0' + ip)
+		out = out[1:]
+	case ip < 100:
+		out[0], out[1] = pairs[2*ip], pairs[2*ip+1]
+		out = out[2:]
+	default:
+		r := ip % 100
+		out[0], out[1], out[2] = byte('0'+ip/100), pairs[2*r], pairs[2*r+1]
+		out = out[3:]
+	}
+	hi, lo := fp/100, fp%100
+	_ = out[4]
+	out[0] = '.'
+	out[1], out[2] = pairs[2*hi], pairs[2*hi+1]
+	out[3], out[4] = pairs[2*lo], pairs[2*lo+1]
+	return b
 }
 
 // limit[dec] is the magnitude from which AppendFixed leaves a value to
