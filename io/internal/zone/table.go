@@ -36,13 +36,13 @@ type table struct {
 	segs   []seg
 	hi     int64 // walls >= hi are resolved by search
 	// buckets[k] is the segment holding wall bucketBase + k<<bucketShift: a wall's segment is found
-	// from its bucket's in a step or two (a bucket spans about 194 days).
+	// from its bucket's, mostly at once (a bucket spans about 24 days).
 	buckets []int32
 }
 
 const (
 	bucketBase  = -3786825600 // 1850-01-01 00:00:00 as a wall
-	bucketShift = 24
+	bucketShift = 21
 )
 
 // tableEnd is the instant (2101-01-01T00:00:00Z) after which tables stop listing transitions.
