@@ -20,10 +20,22 @@ func TestSteadyZstdSameBytes(t *testing.T) {
 		t.Fatalf("the zstd codec is %T, want *steadyZstd", c)
 	}
 	rng := rand.New(rand.NewPCG(5, 6))
-	for _, n := range []int{0, 1, 100, 4096, 1 << 20} {
+	// Sizes on both sides of one block (128 KiB), of the small encoder's
+	// window and of the default window (8 MiB).
+	for _, n := range []int{0, 1, 100, 1024, 1025, 4096, 128 << 10, 128<<10 + 1, 1 << 20,
+		smallWindow - 1, smallWindow, smallWindow + 1, 3 << 20, 9 << 20} {
+		// Compressible bytes, with a stretch of random bytes repeated
+		// from far back (up to the whole size), to make long matches.
 		src := make([]byte, n)
 		for i := range src {
-			src[i] = byte(rng.IntN(16)) // compressible
+			src[i] = byte(rng.IntN(16))
+		}
+		if n >= 1<<20 {
+			far := src[:64<<10]
+			for i := range far {
+				far[i] = byte(rng.Uint32())
+			}
+			copy(src[n-len(far):], far)
 		}
 		got := z.EncodeLevel(nil, src, compress.DefaultCompressionLevel)
 		want := z.Codec.EncodeLevel(nil, src, compress.DefaultCompressionLevel)
