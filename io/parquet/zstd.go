@@ -20,7 +20,8 @@ import (
 // a history buffer of twice its window: 16 MiB at the default level's 8 MiB
 // window. Pages are far smaller (the writer cuts data pages at dataPageSize,
 // dictionary pages at about 1 MiB), so pages up to smallWindow go to an
-// encoder with that window (4 MiB of history each). For such a page the
+// encoder with that window, made with the library's low-memory buffers
+// (history of the window plus one 128 KiB block each). For such a page the
 // bytes are the same as with the 8 MiB window: a frame holding a page no
 // larger than its window is a single segment (no window size is written),
 // and no match can reach back further than the page's start, as each page
@@ -55,7 +56,7 @@ func (z *steadyZstd) encoder(n int) *zstd.Encoder {
 	if n <= smallWindow {
 		z.smallOnce.Do(func() {
 			z.small, _ = zstd.NewWriter(nil, zstd.WithZeroFrames(true), zstd.WithEncoderLevel(zstd.SpeedDefault),
-				zstd.WithAllLitEntropyCompression(true), zstd.WithWindowSize(smallWindow))
+				zstd.WithAllLitEntropyCompression(true), zstd.WithWindowSize(smallWindow), zstd.WithLowerEncoderMem(true))
 		})
 		return z.small
 	}
