@@ -127,11 +127,12 @@ func (k *Kernel) allocate(n int) {
 	k.evictions = 0
 }
 
-// grow quadruples the caches, up to maxCellSlots, once the rows have evicted as many entries as the caches
-// hold: their instants spread wider than the caches reach.
+// grow doubles the caches, up to maxCellSlots, once the rows have evicted as many entries as the caches
+// hold: their instants spread wider than the caches reach. Doubling (not more) keeps them within twice the
+// span the rows need.
 func (k *Kernel) grow() {
 	if k.evictions >= len(k.cells) && len(k.cells) < maxCellSlots {
-		k.allocate(min(4*len(k.cells), maxCellSlots))
+		k.allocate(min(2*len(k.cells), maxCellSlots))
 	}
 }
 
