@@ -29,6 +29,13 @@ const DefaultRowGroupRows = 128 * 1024
 // this many compressed bytes (wide rows), bounding the writer's memory.
 const maxRowGroupBytes = 128 << 20
 
+// defaultDataPageSize is the size at which a data page is cut. Every column
+// writer of a row group holds its page being filled, that page assembled and
+// compressed, and its row group's pages: with arrow-go's 1 MiB pages, a
+// wide file's writer held over 100 MiB. Measured on the 36-column benchmark
+// file, pages of 256 KiB made the output 0.6% larger and the run no slower.
+const defaultDataPageSize = 256 << 10
+
 // Compressions lists the codec names WriterOptions.Compression accepts.
 var Compressions = []string{"uncompressed", "snappy", "gzip", "brotli", "zstd", "lz4"}
 
@@ -52,8 +59,8 @@ type WriterOptions struct {
 	// columns are always encoded one column after another.
 	Workers int
 
-	// dataPageSize is the target data page size in bytes, 0 meaning the
-	// library's (1 MiB); tests make it small to cut many pages.
+	// dataPageSize is the target data page size in bytes, 0 meaning
+	// defaultDataPageSize; tests make it small to cut many pages.
 	dataPageSize int64
 	// groupBytes is the compressed size at which a row group is closed
 	// early, 0 meaning maxRowGroupBytes; tests make it small.
@@ -132,9 +139,7 @@ func NewWriter(w io.Writer, rd *Reader, plan *enrich.Plan, o WriterOptions) (*Wr
 		pq.WithDictionaryDefault(true),
 		pq.WithStats(true),
 	}
-	if o.dataPageSize > 0 {
-		opts = append(opts, pq.WithDataPageSize(o.dataPageSize))
-	}
+	opts = append(opts, pq.WithDataPageSize(cmp.Or(o.dataPageSize, defaultDataPageSize)))
 	codecs, fallback := rd.codecs()
 	if o.Compression != "" {
 		c, err := ParseCompression(o.Compression)
