@@ -26,8 +26,16 @@ import (
 const DefaultRowGroupRows = 128 * 1024
 
 // maxRowGroupBytes starts a new row group early when the current one holds
-// this many compressed bytes (wide rows), bounding the writer's memory.
-const maxRowGroupBytes = 128 << 20
+// this many compressed bytes (wide rows), bounding the writer's memory: a
+// row group's compressed pages stay in memory until it is closed, in
+// buffers that grow by doubling. The bytes are those of the pages cut so
+// far, so a group may pass the bound by up to one page per column.
+// Measured on the benchmark files (5M rows, 2 workers, 256 KiB pages), 4 MiB
+// instead of 128 MiB cut the peak RSS of an enrich by 10 to 40 MiB (groups
+// of 64Ki rows instead of 128Ki for 48 output columns, of 32Ki to 40Ki rows
+// with --add all), making the output 0.1% to 1.0% larger, at no cost in
+// time.
+const maxRowGroupBytes = 4 << 20
 
 // defaultDataPageSize is the size at which a data page is cut. Every column
 // writer of a row group holds its page being filled, and that page again
@@ -51,8 +59,8 @@ type WriterOptions struct {
 	// (zstd for a file with no row groups).
 	Compression string
 	// RowGroupRows is the number of rows per output row group; 0 means
-	// DefaultRowGroupRows. A row group is also closed early when it reaches
-	// 128 MiB compressed.
+	// DefaultRowGroupRows. A row group is also closed early when its pages
+	// reach 4 MiB compressed.
 	RowGroupRows int
 	// Workers is the number of goroutines that encode and compress the
 	// columns of each block of rows at once (the goroutine calling Write
