@@ -26,7 +26,7 @@ const (
 	cellNodes    = 4                    // steps per cell
 	nCoef        = cellNodes + 3        // nodes per cell, and coefficients per polynomial
 	minCellSlots = 1 << 10              // 1024 cells: 171 days without collisions
-	maxCellSlots = 1 << 15              // 32768 cells: 15 years
+	maxCellSlots = 1 << 16              // 65536 cells: 30 years
 	nodesPerCell = 2                    // node slots per cell slot (half the span of the cells)
 	cellSpan     = cellNodes * gridStep // seconds per cell
 	emptySlot    = math.MinInt64        // tag of a slot never filled
@@ -62,10 +62,9 @@ type cell struct {
 // and the kernel's options, not on how rows are batched. It caches geocentric quantities between calls, so
 // one kernel should serve every batch a worker handles: a batch of instants within a year then costs no
 // reference evaluation after the first (a year of hourly nodes costs about 8800). Its caches take about
-// 0.5 MB at first and grow, when the rows' instants spread wider, up to about 15 MB to hold 15 years of
-// instants (a worker of an enrich run holds one kernel, so a larger bound would cost every worker its
-// size). Rows spread more thinly than one per 4 hours, or over more than 15 years, cost up to seven
-// reference evaluations each.
+// 0.5 MB at first and grow by doubling, when the rows' instants spread wider, up to about 30 MB to hold 30
+// years of instants (15 MB for rows over 10 years: a worker of an enrich run holds one kernel). Rows spread
+// more thinly than one per 4 hours, or over more than 30 years, cost up to seven reference evaluations each.
 // A Kernel is not safe for concurrent use: give each goroutine its own.
 type Kernel struct {
 	ok        bool    // options valid
