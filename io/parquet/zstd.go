@@ -18,7 +18,7 @@ import (
 //
 // An encoder keeps, per goroutine that uses it at once (GOMAXPROCS of them),
 // a history buffer of twice its window: 16 MiB at the default level's 8 MiB
-// window. Pages are far smaller (the writer cuts data pages at dataPageSize,
+// window. Pages are far smaller (the writer cuts data pages at 256 KiB,
 // dictionary pages at about 1 MiB), so pages up to smallWindow go to an
 // encoder with that window, made with the library's low-memory buffers
 // (history of the window plus one 128 KiB block each). For such a page the
