@@ -75,6 +75,9 @@ type Options struct {
 	Workers int
 	// BatchRows is the number of rows per batch; 0 means DefaultBatchRows.
 	BatchRows int
+	// InFlight bounds the batches read but not yet written, and so the
+	// memory they hold; 0 means pipeline's default (2·Workers + 2).
+	InFlight int
 	// Solar configures the sun computation (atmosphere, ΔT).
 	Solar solar.Options
 	// Glare holds the glare group's thresholds.
@@ -308,7 +311,7 @@ func Run(ctx context.Context, src Source, sink Sink, o Options) (Summary, error)
 		return nil
 	}
 
-	err := pipeline.Run(ctx, pipeline.Options{Workers: workers}, read, work, write)
+	err := pipeline.Run(ctx, pipeline.Options{Workers: workers, InFlight: o.InFlight}, read, work, write)
 	if rejects != nil {
 		rejects.Flush()
 		if ferr := rejects.Error(); ferr != nil && err == nil {

@@ -4,6 +4,7 @@
 package job
 
 import (
+	"cmp"
 	"context"
 	"encoding/json"
 	"errors"
@@ -148,7 +149,7 @@ func Enrich(ctx context.Context, o Options, stdin io.Reader, stdout io.Writer) (
 	}
 	defer in.Close()
 	if o.BatchRows <= 0 {
-		o.BatchRows = in.Format.BatchRows()
+		o.BatchRows = in.BatchRows()
 	}
 
 	plan, err := enrich.NewPlan(enrich.PlanOptions{
@@ -195,6 +196,13 @@ func Enrich(ctx context.Context, o Options, stdin io.Reader, stdout io.Writer) (
 	eo := enrich.Options{
 		Plan: plan, Policy: o.Policy, Rejects: rejects,
 		Workers: o.Workers, BatchRows: o.BatchRows, Solar: o.Solar, Glare: o.Glare,
+	}
+	if in.Format == formats.Parquet {
+		// A Parquet batch holds every column of 8,192 rows decoded (8 MB
+		// for 36 columns): one batch waiting per worker and one being
+		// written keep the workers busy (benchmarks/RESULTS.md, "Parquet
+		// memory").
+		eo.InFlight = cmp.Or(o.Workers, runtime.NumCPU()) + 1
 	}
 	if o.OnProgress != nil {
 		pos, _ := in.Source.(enrich.Progress)

@@ -124,6 +124,16 @@ func (in *Input) NewSink(w io.Writer, plan *enrich.Plan) (enrich.Sink, error) {
 	return in.newSink(w, plan)
 }
 
+// BatchRows is the default number of rows per batch for this input: the
+// reader's own choice when it makes one (Parquet, from the file's columns),
+// or else the format's.
+func (in *Input) BatchRows() int {
+	if s, ok := in.Source.(interface{ BatchRows() int }); ok {
+		return s.BatchRows()
+	}
+	return in.Format.BatchRows()
+}
+
 // Close closes the input file.
 func (in *Input) Close() error {
 	if in.closer != nil {
