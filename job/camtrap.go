@@ -48,7 +48,7 @@ func enrichPackage(ctx context.Context, o Options) (res Result, err error) {
 		return res, err
 	}
 	if o.BatchRows <= 0 { // tables are read as CSV text
-		o.BatchRows = formats.TextBatchRows
+		o.BatchRows = formats.CSVBatchRows
 	}
 	if err := o.Solar.Validate(); err != nil {
 		return res, fmt.Errorf("%w: %w", enrich.ErrUsage, err)

@@ -125,7 +125,7 @@ func newEnrichFlags(fs *flag.FlagSet, ef *enrichFlags) {
 	fs.StringVar(&o.Rejects, "rejects", "", "`FILE` for rows left out by --on-bad-row skip (default: beside the output)")
 	fs.StringVar(&o.Report, "report", "", "write the run's figures to `FILE`.json")
 	fs.IntVar(&o.Workers, "workers", runtime.NumCPU(), "`N` worker goroutines")
-	fs.IntVar(&o.BatchRows, "batch-rows", 0, "`N` rows per batch (default 1024 for text formats, 8192 for Parquet)")
+	fs.IntVar(&o.BatchRows, "batch-rows", 0, "`N` rows per batch (default 1024 for CSV and TSV, 8192 for GeoJSON and Parquet, less for wide Parquet tables)")
 	fs.StringVar(&ef.progress, "progress", "auto", "progress bar on stderr: auto|never|always")
 	fs.BoolVar(&ef.quiet, "q", false, "quiet: no progress bar and no summary line")
 	fs.StringVar(&ef.cpuprofile, "cpuprofile", "", "write a CPU profile to `FILE`")

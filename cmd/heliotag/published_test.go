@@ -94,7 +94,7 @@ func TestReportJSON(t *testing.T) {
 	assert.Equal(t, map[string]int64{"daylight": 1, "dark": 1}, rep.Conditions)
 	assert.Equal(t, "skip", rep.Options.OnBadRow)
 	assert.Equal(t, "out.rejects.csv", rep.Options.Rejects)
-	assert.Equal(t, 1024, rep.Options.BatchRows, "the text formats' default batch")
+	assert.Equal(t, 1024, rep.Options.BatchRows, "CSV's default batch")
 	assert.NotEmpty(t, rep.Version)
 }
 

@@ -34,18 +34,18 @@ var supported = []Format{CSV, TSV, GeoJSON, GeoJSONSeq, Parquet}
 // Text reports whether f is a text format (may be gzipped, read from stdin).
 func (f Format) Text() bool { return f != Parquet }
 
-// TextBatchRows is the default batch of the text formats: rows are parsed
-// one by one, and a batch whose rows, inputs and results stay in the
-// processor's caches is faster than a large one (benchmarks/RESULTS.md,
-// "Batch size").
-const TextBatchRows = 1024
+// CSVBatchRows is the default batch of CSV and TSV: a batch whose records,
+// inputs and results stay in the processor's caches costs less CPU and
+// memory than a large one, most of all on wide rows (benchmarks/RESULTS.md,
+// "Batch size"). GeoJSON, which did not gain, keeps enrich.DefaultBatchRows.
+const CSVBatchRows = 1024
 
 // BatchRows is f's default number of rows per batch (enrich.Options.BatchRows):
-// TextBatchRows for the text formats, and enrich.DefaultBatchRows for
-// Parquet, whose record batches cost more per batch than per row.
+// CSVBatchRows for CSV and TSV, enrich.DefaultBatchRows for the others (a
+// Parquet reader may choose fewer for a wide table: see Input.BatchRows).
 func (f Format) BatchRows() int {
-	if f.Text() {
-		return TextBatchRows
+	if f == CSV || f == TSV {
+		return CSVBatchRows
 	}
 	return enrich.DefaultBatchRows
 }
