@@ -4,7 +4,6 @@
 package job
 
 import (
-	"cmp"
 	"context"
 	"encoding/json"
 	"errors"
@@ -198,11 +197,15 @@ func Enrich(ctx context.Context, o Options, stdin io.Reader, stdout io.Writer) (
 		Workers: o.Workers, BatchRows: o.BatchRows, Solar: o.Solar, Glare: o.Glare,
 	}
 	if in.Format == formats.Parquet {
-		// A Parquet batch holds every column of 8,192 rows decoded (8 MB
-		// for 36 columns): one batch waiting per worker and one being
-		// written keep the workers busy (benchmarks/RESULTS.md, "Parquet
-		// memory").
-		eo.InFlight = cmp.Or(o.Workers, runtime.NumCPU()) + 1
+		// A Parquet batch holds every column of its rows decoded: one
+		// batch per worker and one being written keep the workers busy
+		// with less memory than pipeline's default (benchmarks/RESULTS.md,
+		// "Parquet memory").
+		workers := o.Workers
+		if workers < 1 {
+			workers = runtime.NumCPU()
+		}
+		eo.InFlight = workers + 1
 	}
 	if o.OnProgress != nil {
 		pos, _ := in.Source.(enrich.Progress)

@@ -3,6 +3,7 @@ package solar
 import (
 	"math"
 	"sync"
+	"sync/atomic"
 )
 
 // The batch path evaluates the reference's geocentric quantities at grid instants ("nodes", every gridStep
@@ -19,7 +20,7 @@ import (
 // 2e-7° and 5e-8°. TestKernelAccuracy measures the total against the reference path (under 1e-6°).
 //
 // Nodes cost one reference evaluation each (about 10 µs); kernels made by one [Grid] share them, so that
-// workers handling the same rows' instants evaluate each node once between them.
+// workers handling the same rows' instants mostly evaluate each node once between them.
 const (
 	gridStep     = 2 * secondsPerDay // seconds between nodes
 	minCellSlots = 1 << 10           // 1024 cells: 5.6 years of 2-day cells without collisions
@@ -77,37 +78,22 @@ type Kernel struct {
 // first and grow up to about 8 MB when the rows' instants span more than a few years. Kernels for several
 // goroutines are better made by one [Grid].
 func NewKernel(o Options) *Kernel {
-	return NewGrid(o).NewKernel()
+	return newKernel(copyOptions(o), nil)
 }
 
-// Grid holds the geocentric quantities at the batch path's grid instants for the kernels it makes, so that
-// they compute each instant once between them: several workers handling rows of the same years then share
-// the cost of building their caches. A Grid is safe for concurrent use; each of its kernels is not. It holds
-// at most 65,536 instants (about 6 MB), 359 years of the grid; beyond that its kernels compute what it does
-// not hold.
-type Grid struct {
-	options Options
-	mu      sync.RWMutex
-	nodes   map[int64]node
-}
-
-// maxGridNodes bounds a Grid: as many nodes as the largest kernel caches hold.
-const maxGridNodes = nodesPerCell * maxCellSlots
-
-// NewGrid returns an empty grid for the given options (the kernels' options; see [NewKernel]).
-func NewGrid(o Options) *Grid {
-	if o.DeltaT != nil { // keep our own copy: the caller may change *o.DeltaT later
+// copyOptions returns o with its own copies of the values it points to: the caller may change them later.
+func copyOptions(o Options) Options {
+	if o.DeltaT != nil {
 		o.DeltaT = ptrTo(*o.DeltaT)
 	}
 	if o.Temperature != nil {
 		o.Temperature = ptrTo(*o.Temperature)
 	}
-	return &Grid{options: o, nodes: make(map[int64]node)}
+	return o
 }
 
-// NewKernel returns a kernel with the grid's options, sharing the grid's nodes (see [NewKernel]).
-func (g *Grid) NewKernel() *Kernel {
-	o := g.options
+// newKernel returns a kernel for options o (already copied) sharing grid g's nodes; g may be nil.
+func newKernel(o Options, g *Grid) *Kernel {
 	k := &Kernel{
 		ok:      o.Validate() == nil,
 		refr:    o.refractionScale() * 1.02 / 60,
@@ -122,20 +108,56 @@ func (g *Grid) NewKernel() *Kernel {
 	return k
 }
 
-// lookup returns node nk if the grid holds it.
+// Grid holds the geocentric quantities at the batch path's grid instants for the kernels it makes, so that
+// they mostly compute each instant once between them (two kernels needing the same instant at the same
+// moment may both compute it): several workers handling rows of the same years then share the cost of
+// building their caches. A Grid is safe for concurrent use; each of its kernels is not. It holds at most
+// 65,536 instants (about 8 MB), 359 years of the grid; beyond that each kernel computes what the grid does
+// not hold. Make one with [NewGrid]; the zero Grid has the zero Options.
+type Grid struct {
+	options Options
+	mu      sync.RWMutex
+	nodes   map[int64]node
+	full    atomic.Bool // len(nodes) == maxGridNodes: nothing more is stored
+}
+
+// maxGridNodes bounds a Grid: as many nodes as the largest kernel caches hold.
+const maxGridNodes = nodesPerCell * maxCellSlots
+
+// NewGrid returns an empty grid for the given options (the kernels' options; see [NewKernel]).
+func NewGrid(o Options) *Grid {
+	return &Grid{options: copyOptions(o)}
+}
+
+// NewKernel returns a kernel with the grid's options, sharing the grid's nodes (see [NewKernel]).
+func (g *Grid) NewKernel() *Kernel {
+	return newKernel(g.options, g)
+}
+
+// lookup returns node nk if the grid holds it; a nil grid holds nothing.
 func (g *Grid) lookup(nk int64) (node, bool) {
+	if g == nil {
+		return node{}, false
+	}
 	g.mu.RLock()
 	nd, ok := g.nodes[nk]
 	g.mu.RUnlock()
 	return nd, ok
 }
 
-// store adds a computed node, unless the grid is full.
+// store adds a computed node, unless the grid is nil or full.
 func (g *Grid) store(nd node) {
+	if g == nil || g.full.Load() {
+		return
+	}
 	g.mu.Lock()
+	if g.nodes == nil {
+		g.nodes = make(map[int64]node)
+	}
 	if len(g.nodes) < maxGridNodes {
 		g.nodes[nd.tag] = nd
 	}
+	g.full.Store(len(g.nodes) >= maxGridNodes)
 	g.mu.Unlock()
 }
 

@@ -375,3 +375,17 @@ func TestGridSharedKernels(t *testing.T) {
 		t.Fatalf("grid holds %d nodes, want 1..%d", len(g.nodes), maxGridNodes)
 	}
 }
+
+// TestGridZeroValue: kernels from a zero Grid work, with the zero Options.
+func TestGridZeroValue(t *testing.T) {
+	var g Grid
+	unix, lat, lon := benchRows(100)
+	var got, want Positions
+	g.NewKernel().Positions(unix, lat, lon, &got)
+	NewKernel(Options{}).Positions(unix, lat, lon, &want)
+	for i := range unix {
+		if got.Altitude[i] != want.Altitude[i] || got.Azimuth[i] != want.Azimuth[i] {
+			t.Fatalf("row %d: zero Grid's kernel %v %v, NewKernel %v %v", i, got.Altitude[i], got.Azimuth[i], want.Altitude[i], want.Azimuth[i])
+		}
+	}
+}

@@ -94,11 +94,17 @@ func run(ctx context.Context, args []string, stderr io.Writer) int {
 		}
 		defer pprof.StopCPUProfile()
 	}
+	if *batch <= 0 { // the batch heliotag enrich would use (a Parquet reader chooses from the columns)
+		in, err := formats.Open(path, f, nil, formats.Options{Select: sel})
+		if err != nil {
+			fmt.Fprintln(stderr, "readonly:", err)
+			return 1
+		}
+		*batch = in.BatchRows()
+		in.Close()
+	}
 	start := time.Now()
 	var rows int64
-	if *batch <= 0 {
-		*batch = f.BatchRows()
-	}
 	if f == formats.Parquet {
 		rows, err = drainParquet(ctx, path, *batch)
 	} else {

@@ -20,6 +20,10 @@ import (
 	"github.com/heliotag/heliotag/job"
 )
 
+// maxBatchRows bounds --batch-rows: readers allocate a batch's buffers up
+// front, so a mistyped size would otherwise fail on memory instead of here.
+const maxBatchRows = 1 << 20
+
 const enrichHelp = `Usage: heliotag enrich [flags] INPUT
 
 Writes INPUT with the sun's position and natural-light columns added. Every
@@ -125,7 +129,7 @@ func newEnrichFlags(fs *flag.FlagSet, ef *enrichFlags) {
 	fs.StringVar(&o.Rejects, "rejects", "", "`FILE` for rows left out by --on-bad-row skip (default: beside the output)")
 	fs.StringVar(&o.Report, "report", "", "write the run's figures to `FILE`.json")
 	fs.IntVar(&o.Workers, "workers", runtime.NumCPU(), "`N` worker goroutines")
-	fs.IntVar(&o.BatchRows, "batch-rows", 0, "`N` rows per batch (default 1024 for CSV and TSV, 8192 for GeoJSON and Parquet, less for wide Parquet tables)")
+	fs.IntVar(&o.BatchRows, "batch-rows", 0, "`N` rows per batch, 1 to 1048576 (default 1024 for CSV, TSV and Camtrap DP tables, 8192 for GeoJSON and Parquet, less for wide Parquet tables)")
 	fs.StringVar(&ef.progress, "progress", "auto", "progress bar on stderr: auto|never|always")
 	fs.BoolVar(&ef.quiet, "q", false, "quiet: no progress bar and no summary line")
 	fs.StringVar(&ef.cpuprofile, "cpuprofile", "", "write a CPU profile to `FILE`")
@@ -179,6 +183,9 @@ func runEnrich(ctx context.Context, args []string, stdin io.Reader, stdout, stde
 	fs.Visit(func(f *flag.Flag) { batchGiven = batchGiven || f.Name == "batch-rows" })
 	if o.Workers < 1 || o.BatchRows < 0 || batchGiven && o.BatchRows < 1 {
 		return flagError(stderr, "enrich", errors.New("--workers and --batch-rows must be at least 1"))
+	}
+	if o.BatchRows > maxBatchRows {
+		return flagError(stderr, "enrich", fmt.Errorf("--batch-rows %d is too large: at most %d rows per batch (a batch is held in memory several times over)", o.BatchRows, maxBatchRows))
 	}
 	showBar := false
 	switch ef.progress {

@@ -98,22 +98,30 @@ func TestReportJSON(t *testing.T) {
 	assert.NotEmpty(t, rep.Version)
 }
 
-// TestBatchRowsFlag: --batch-rows takes a positive number; 0 is refused (leaving the flag out gives the
-// format's default).
+// TestBatchRowsFlag: --batch-rows takes 1 to 1,048,576; 0 and larger sizes are refused (leaving the flag out
+// gives the format's default).
 func TestBatchRowsFlag(t *testing.T) {
 	dir := t.TempDir()
 	t.Chdir(dir)
 	require.NoError(t, os.WriteFile("in.csv", []byte("id,lat,lon,timestamp\n1,51.5,-0.12,2024-06-21T12:00:00Z\n"), 0o644))
 	for _, c := range []struct {
-		value string
-		code  int
-	}{{"0", 2}, {"-5", 2}, {"1", 0}, {"100000", 0}} {
-		var stdout, stderr bytes.Buffer
-		code := run(context.Background(), []string{"enrich", "in.csv", "--batch-rows", c.value, "-q", "-o", "out.csv", "--force"}, nil, &stdout, &stderr)
-		assert.Equal(t, c.code, code, "--batch-rows %s: %s", c.value, stderr.String())
-		if c.code == 2 {
-			assert.Contains(t, stderr.String(), "--batch-rows must be at least 1")
-		}
+		value  string
+		code   int
+		stderr string
+	}{
+		{"0", 2, "--batch-rows must be at least 1"},
+		{"-5", 2, "--batch-rows must be at least 1"},
+		{"1", 0, ""},
+		{"1048576", 0, ""},
+		{"1048577", 2, "at most 1048576 rows per batch"},
+		{"1000000000", 2, "at most 1048576 rows per batch"},
+	} {
+		t.Run(c.value, func(t *testing.T) {
+			var stdout, stderr bytes.Buffer
+			code := run(context.Background(), []string{"enrich", "in.csv", "--batch-rows", c.value, "-q", "-o", "out.csv", "--force"}, nil, &stdout, &stderr)
+			assert.Equal(t, c.code, code, stderr.String())
+			assert.Contains(t, stderr.String(), c.stderr)
+		})
 	}
 }
 

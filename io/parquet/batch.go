@@ -28,9 +28,10 @@ func (rd *Reader) BatchRows() int {
 }
 
 // rowBytes estimates the decoded size of a row of these fields: fixed-width
-// values at their width, nested ones as the sum of their children, and 32
-// bytes for a string or binary value (its offset and typical text) and for
-// the elements of a list or map.
+// values at their width, a struct as the sum of its fields, a fixed-size
+// list as its length times its element, a list or map as an 8-byte offset
+// and four elements, and 32 bytes for a string or binary value (its offset
+// and typical text).
 func rowBytes(fields []arrow.Field) int {
 	n := 0
 	for _, f := range fields {
@@ -47,6 +48,8 @@ func typeBytes(t arrow.DataType) int {
 		return max(t.BitWidth()/8, 1)
 	case *arrow.StructType:
 		return rowBytes(t.Fields())
+	case *arrow.FixedSizeListType:
+		return int(t.Len()) * typeBytes(t.Elem())
 	case arrow.ListLikeType:
 		return 8 + 4*typeBytes(t.Elem())
 	case arrow.ExtensionType:

@@ -25,6 +25,8 @@ func TestBatchRows(t *testing.T) {
 			arrow.Field{Name: fmt.Sprint("b", i), Type: arrow.FixedWidthTypes.Boolean},
 			arrow.Field{Name: fmt.Sprint("d", i), Type: arrow.FixedWidthTypes.Date32})
 	}
+	embedding := append([]arrow.Field(nil), narrow...) // 2,048 bytes of values a row
+	embedding = append(embedding, arrow.Field{Name: "v", Type: arrow.FixedSizeListOf(512, arrow.PrimitiveTypes.Float32)})
 	var huge []arrow.Field
 	for i := range 400 {
 		huge = append(huge, arrow.Field{Name: fmt.Sprint("c", i), Type: arrow.ListOf(arrow.BinaryTypes.String)})
@@ -37,9 +39,11 @@ func TestBatchRows(t *testing.T) {
 		name   string
 		fields []arrow.Field
 		rows   int
-	}{{"narrow", narrow, 8192}, {"wide", wide, 4096}, {"huge", huge, minBatchRows}, {"nested", nested, 8192}} {
-		rd := &Reader{schema: arrow.NewSchema(c.fields, nil)}
-		assert.Equal(t, c.rows, rd.BatchRows(), "%s: %d bytes a row", c.name, rowBytes(c.fields))
+	}{{"narrow", narrow, 8192}, {"wide", wide, 4096}, {"embedding", embedding, minBatchRows}, {"huge", huge, minBatchRows}, {"nested", nested, 8192}} {
+		t.Run(c.name, func(t *testing.T) {
+			rd := &Reader{schema: arrow.NewSchema(c.fields, nil)}
+			assert.Equal(t, c.rows, rd.BatchRows(), "%d bytes a row", rowBytes(c.fields))
+		})
 	}
 	assert.Equal(t, 17, rowBytes([]arrow.Field{{Name: "p", Type: arrow.StructOf(
 		arrow.Field{Name: "x", Type: arrow.PrimitiveTypes.Float64}, arrow.Field{Name: "y", Type: arrow.PrimitiveTypes.Float64})},

@@ -2,6 +2,7 @@ package fields
 
 import (
 	"errors"
+	"fmt"
 	"strings"
 	"testing"
 )
@@ -16,10 +17,12 @@ func TestCoordinate(t *testing.T) {
 		{"39.5", 39.5}, {" 39.5", 39.5}, {"39.5 ", 39.5}, {"\t-86.38473\r", -86.38473},
 		{"39.5\u00a0", 39.5}, {"\u200339.5", 39.5}, {"+12", 12}, {"-0.0001", -0.0001},
 	} {
-		got, err := Coordinate(c.in, "latitude", 90)
-		if err != nil || got != c.want {
-			t.Errorf("Coordinate(%q) = %v, %v; want %v", c.in, got, err, c.want)
-		}
+		t.Run(fmt.Sprintf("%q", c.in), func(t *testing.T) {
+			got, err := Coordinate(c.in, "latitude", 90)
+			if err != nil || got != c.want {
+				t.Errorf("Coordinate(%q) = %v, %v; want %v", c.in, got, err, c.want)
+			}
+		})
 	}
 	for _, c := range []struct {
 		in   string
@@ -28,12 +31,14 @@ func TestCoordinate(t *testing.T) {
 		{"", ErrEmpty}, {"  ", ErrEmpty}, {"\u00a0", ErrEmpty}, {"39,5", ErrNotFloat}, {"N39.5", ErrNotFloat},
 		{"39.5°", ErrNotFloat}, {"NaN", ErrNotFloat}, {"Inf", ErrNotFloat},
 	} {
-		_, err := Coordinate(c.in, "latitude", 90)
-		if !errors.Is(err, c.want) {
-			t.Errorf("Coordinate(%q) error %v, want %v", c.in, err, c.want)
-		}
-		if err != nil && !strings.Contains(err.Error(), "[-90, 90]") {
-			t.Errorf("Coordinate(%q) error %q does not name the valid range", c.in, err)
-		}
+		t.Run(fmt.Sprintf("%q", c.in), func(t *testing.T) {
+			_, err := Coordinate(c.in, "latitude", 90)
+			if !errors.Is(err, c.want) {
+				t.Errorf("Coordinate(%q) error %v, want %v", c.in, err, c.want)
+			}
+			if err != nil && !strings.Contains(err.Error(), "[-90, 90]") {
+				t.Errorf("Coordinate(%q) error %q does not name the valid range", c.in, err)
+			}
+		})
 	}
 }

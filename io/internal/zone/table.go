@@ -61,7 +61,7 @@ func offsetAt(loc *time.Location, sec int64) int {
 func buildTable(loc *time.Location) *table {
 	t := listSegments(loc)
 	end := min(t.hi, tableEnd+86400)
-	if end > bucketBase {
+	if end > bucketBase && len(t.starts) > 1 { // a zone with one offset needs no index
 		n := int((end-bucketBase)>>bucketShift) + 1
 		t.buckets = make([]int32, n)
 		i := 0
